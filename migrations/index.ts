@@ -1,0 +1,10 @@
+import type { Migration } from 'kysely';
+import * as foodTables from './202612012000_food_tables.js';
+
+/**
+ * Every migration, by name (no extension, so the same database works from any runner).
+ * Add new migrations here in name order; never edit or remove a landed one.
+ */
+export const migrations: Record<string, Migration> = {
+  '202612012000_food_tables': foodTables,
+};

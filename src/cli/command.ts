@@ -1,0 +1,37 @@
+import type { ParseArgsConfig } from 'node:util';
+import type { Config } from '../config.js';
+import type { Db } from '../db/database.js';
+
+/** Output streams and the opened database, handed to every command (tests pass fakes). */
+export interface CommandContext {
+  args: {
+    values: Record<string, string | boolean | (string | boolean)[] | undefined>;
+    positionals: string[];
+  };
+  config: Config;
+  /** Opens and migrates the configured database on first use. */
+  db(): Promise<Db>;
+  stdout: NodeJS.WritableStream;
+  stderr: NodeJS.WritableStream;
+  stdin: NodeJS.ReadableStream;
+}
+
+export interface Command {
+  /** Words that name the command, e.g. ['foods', 'search']. */
+  path: string[];
+  /** One usage line after the command words, e.g. '<text> [--json]'. */
+  usage: string;
+  summary: string;
+  options?: ParseArgsConfig['options'];
+  /** Minimum number of positional arguments after the command words. */
+  minPositionals?: number;
+  run(ctx: CommandContext): Promise<number | void>;
+}
+
+/** A usage error: printed with the command's usage line, exit code 2. */
+export class UsageError extends Error {
+  constructor(message: string) {
+    super(message);
+    this.name = 'UsageError';
+  }
+}

@@ -1,0 +1,7 @@
+import type { Command } from '../command.js';
+import { dbMigrate, sources } from './db.js';
+import { foodsSearch, foodsShow } from './foods.js';
+import { serveCommand } from './serve.js';
+
+/** Every CLI command; each area adds its own here. */
+export const commands: Command[] = [serveCommand, dbMigrate, sources, foodsSearch, foodsShow];

@@ -1,0 +1,7 @@
+import type { FoodTables } from './food.tables.js';
+
+/**
+ * The whole database as Kysely sees it. Each area declares its tables in its own
+ * `*.tables.ts` and adds them here.
+ */
+export type DB = FoodTables;

@@ -1,0 +1,85 @@
+import type { FastifyPluginAsync } from 'fastify';
+import type { ZodTypeProvider } from 'fastify-type-provider-zod';
+import { z } from 'zod';
+import type { Db } from '../db/database.js';
+import { NotFoundError } from '../errors.js';
+import { foodSearchQuerySchema } from './food.js';
+import { toFoodHit, toFoodJson } from './food.json.js';
+import { FoodRepository } from './foods.repository.js';
+import { FoodService } from './foods.service.js';
+
+export const foodRoutes: FastifyPluginAsync<{ db: Db }> = async (app, { db }) => {
+  const repo = new FoodRepository(db.kysely);
+  const service = new FoodService(repo);
+  const api = app.withTypeProvider<ZodTypeProvider>();
+
+  api.get(
+    '/foods',
+    {
+      schema: {
+        tags: ['foods'],
+        summary: 'Type-ahead food search',
+        querystring: foodSearchQuerySchema,
+      },
+    },
+    async (req) => (await service.search(req.query)).map(toFoodHit),
+  );
+
+  api.get(
+    '/foods/:id',
+    {
+      schema: {
+        tags: ['foods'],
+        summary: 'One food with every stored nutrient, portions and provenance',
+        params: z.object({ id: z.coerce.number().int().positive() }),
+      },
+    },
+    async (req) => {
+      const food = await repo.getFood(req.params.id);
+      if (!food) throw new NotFoundError('food', req.params.id);
+      const [nutrients, source] = await Promise.all([
+        repo.getAllNutrients(food.id),
+        repo.getProvenance(food.sourceId),
+      ]);
+      return {
+        ...toFoodJson(food),
+        nutrients: nutrients.map((n) => ({
+          code: n.code,
+          name: n.name,
+          unit: n.unit,
+          tag: n.tag,
+          valuePer100g: n.value_per_100g,
+          derivationCode: n.derivation_code,
+          sourceCode: n.source_code,
+        })),
+        provenance: source
+          ? {
+              format: source.format,
+              table: source.name,
+              release: source.release,
+              licence: source.licence,
+              url: source.url,
+              importedAt: source.imported_at,
+              codeInTable: food.code,
+            }
+          : null,
+      };
+    },
+  );
+
+  api.get('/sources', { schema: { tags: ['foods'], summary: 'Imported food tables' } }, async () =>
+    (await repo.listSources()).map((s) => ({
+      id: s.id,
+      format: s.format,
+      name: s.name,
+      release: s.release,
+      licence: s.licence,
+      url: s.url,
+      importedAt: s.imported_at,
+      foods: s.food_count,
+      nutrientValues: s.nutrient_value_count,
+      portions: s.portion_count,
+      skipped: s.skipped_count,
+    })),
+  );
+};

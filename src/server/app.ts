@@ -1,0 +1,63 @@
+import Fastify, { type FastifyInstance, type FastifyServerOptions } from 'fastify';
+import swagger from '@fastify/swagger';
+import swaggerUi from '@fastify/swagger-ui';
+import {
+  jsonSchemaTransform,
+  serializerCompiler,
+  validatorCompiler,
+  type ZodTypeProvider,
+} from 'fastify-type-provider-zod';
+import type { Clock } from '../clock.js';
+import type { Config } from '../config.js';
+import type { Db } from '../db/database.js';
+import { foodRoutes } from '../foods/foods.routes.js';
+import { registerErrorHandler } from './error-handler.js';
+
+/** Everything the server needs from outside; tests pass a fresh in-memory database. */
+export interface AppDeps {
+  db: Db;
+  clock: Clock;
+  config?: Partial<Config>;
+  /** Fastify logger options; tests pass false. Never log bodies: they may hold patient data. */
+  logger?: FastifyServerOptions['logger'];
+}
+
+declare module 'fastify' {
+  interface FastifyContextConfig {
+    /** Route answers without a signed-in user (health, sign-in, static assets, docs). */
+    public?: boolean;
+  }
+}
+
+export type App = FastifyInstance;
+
+/** Builds the HTTP application without listening. */
+export async function buildApp(deps: AppDeps): Promise<App> {
+  const app = Fastify({
+    logger: deps.logger ?? false,
+    bodyLimit: 60 * 1024 * 1024,
+  });
+  app.setValidatorCompiler(validatorCompiler);
+  app.setSerializerCompiler(serializerCompiler);
+  registerErrorHandler(app);
+
+  await app.register(swagger, {
+    openapi: {
+      info: {
+        title: 'phosledger API',
+        description: 'Dietary phosphate load planner. Estimates only; the care team decides.',
+        version: '0.1.0',
+      },
+    },
+    transform: jsonSchemaTransform,
+  });
+  await app.register(swaggerUi, { routePrefix: '/api/docs', uiConfig: { deepLinking: false } });
+
+  const api = app.withTypeProvider<ZodTypeProvider>();
+  api.get('/api/health', { config: { public: true }, schema: { tags: ['system'] } }, async () => ({
+    status: 'ok' as const,
+    time: deps.clock.now().toISOString(),
+  }));
+  await app.register(foodRoutes, { prefix: '/api', db: deps.db });
+  return app;
+}

@@ -1,0 +1,54 @@
+import type { Clock } from '../clock.js';
+import type { Config } from '../config.js';
+import { migrateToLatest, openDb } from '../db/database.js';
+import { buildApp } from './app.js';
+
+export interface ServeIo {
+  stdout: NodeJS.WritableStream;
+  stderr: NodeJS.WritableStream;
+}
+
+/**
+ * Opens and migrates the database, runs first-start steps, and listens. Binds 127.0.0.1 unless
+ * told otherwise: the server holds health information.
+ */
+export async function serve(config: Config, clock: Clock, io: ServeIo) {
+  const db = openDb(config.dbFile);
+  await migrateToLatest(db);
+  for (const step of firstStartSteps) await step({ db, config, clock, io });
+  const app = await buildApp({ db, clock, config, logger: safeLogger(config.logLevel) });
+  const address = await app.listen({ host: config.host, port: config.port });
+  io.stdout.write(`phosledger listening on ${address}\n`);
+  const close = async () => {
+    await app.close();
+    await db.close();
+  };
+  return { app, db, address, close };
+}
+
+export interface FirstStartContext {
+  db: import('../db/database.js').Db;
+  config: Config;
+  clock: Clock;
+  io: ServeIo;
+}
+
+/** Steps run at every start before listening (each decides itself whether it has work). */
+export const firstStartSteps: Array<(ctx: FirstStartContext) => Promise<void>> = [];
+
+/**
+ * Request logs carry the method, the route pattern and the status only: never query strings,
+ * bodies or ids in paths, which can identify a patient.
+ */
+export function safeLogger(level: string) {
+  return {
+    level,
+    serializers: {
+      req: (req: { method: string; routeOptions?: { url?: string | undefined } }) => ({
+        method: req.method,
+        route: req.routeOptions?.url ?? 'unknown',
+      }),
+      res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
+    },
+  };
+}

@@ -1,0 +1,12 @@
+import { defineConfig } from 'vitest/config';
+
+export default defineConfig({
+  test: {
+    include: ['test/**/*.test.ts'],
+    exclude: ['node_modules/**', 'test/bench/**'],
+    allowOnly: !process.env.CI,
+    testTimeout: 60_000,
+    hookTimeout: 120_000,
+    pool: 'forks',
+  },
+});
