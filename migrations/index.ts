@@ -1,5 +1,6 @@
 import type { Migration } from 'kysely';
 import * as foodTables from './202612012000_food_tables.js';
+import * as accountsAudit from './202612012040_accounts_audit.js';
 
 /**
  * Every migration, by name (no extension, so the same database works from any runner).
@@ -7,4 +8,5 @@ import * as foodTables from './202612012000_food_tables.js';
  */
 export const migrations: Record<string, Migration> = {
   '202612012000_food_tables': foodTables,
+  '202612012040_accounts_audit': accountsAudit,
 };

@@ -1,0 +1,20 @@
+import type { Generated } from 'kysely';
+
+export interface AuditEventTable {
+  id: Generated<number>;
+  at: string;
+  user_id: number | null;
+  username: string | null;
+  action: string;
+  entity: string;
+  entity_id: string | null;
+  patient_id: string | null;
+  patient_ref: string | null;
+  outcome: Generated<string>;
+  status_code: number | null;
+  details_json: string | null;
+}
+
+export interface AuditTables {
+  audit_event: AuditEventTable;
+}
