@@ -1,6 +1,7 @@
 import type { Migration } from 'kysely';
 import * as foodTables from './202612012000_food_tables.js';
 import * as accountsAudit from './202612012040_accounts_audit.js';
+import * as patientsPlans from './202612012050_patients_plans.js';
 
 /**
  * Every migration, by name (no extension, so the same database works from any runner).
@@ -9,4 +10,5 @@ import * as accountsAudit from './202612012040_accounts_audit.js';
 export const migrations: Record<string, Migration> = {
   '202612012000_food_tables': foodTables,
   '202612012040_accounts_audit': accountsAudit,
+  '202612012050_patients_plans': patientsPlans,
 };

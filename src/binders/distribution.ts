@@ -1,0 +1,231 @@
+import type { BinderPrescription } from './binder.js';
+import {
+  BINDER_CATALOGUE,
+  BOUND_MG_P_PER_PBED_G,
+  KDOQI_2003_CALCIUM_LIMITS,
+  elementalCalciumMgPerUnit,
+  pbedGPerUnit,
+} from './catalogue.js';
+
+/** One eating occasion of one day, with its estimated absorbable phosphorus (typical, mg). */
+export interface OccasionLoad {
+  name: string;
+  kind: 'meal' | 'snack';
+  time?: string | undefined;
+  absorbableMg: number;
+}
+
+/** Clinic thresholds the distribution obeys (from the `thresholds` setting). */
+export interface BinderThresholds {
+  /** Occasions under this absorbable phosphorus (mg, typical) get no binder. */
+  minAbsorbableMgPerOccasion: number;
+  /** Occasions at or over this absorbable phosphorus (mg) with no binder are pointed out. */
+  highLoadOccasionMg: number;
+}
+
+export type DisagreementCode =
+  | 'high-load-no-binder'
+  | 'binder-exceeds-load'
+  | 'no-occasion-over-threshold'
+  | 'meal-under-threshold'
+  | 'calcium-from-binders-over-limit'
+  | 'calcium-total-over-limit';
+
+export interface Disagreement {
+  code: DisagreementCode;
+  occasion: string | null;
+  message: string;
+}
+
+export interface OccasionBinder {
+  occasion: string;
+  time: string | null;
+  absorbableMg: number;
+  units: number;
+  /** The exact proportional share before rounding (per-day prescriptions), else null. */
+  exactShare: number | null;
+  reason: string;
+  timing: string;
+}
+
+export interface DayBinderSchedule {
+  prescribedUnits: number;
+  distributedUnits: number;
+  occasions: OccasionBinder[];
+  pbedGPerDay: number | null;
+  elementalCalciumMgFromBinders: number;
+  elementalCalciumMgTotal: number;
+  disagreements: Disagreement[];
+}
+
+/** Stated rounding rule, shown with every schedule. */
+export const ROUNDING_RULE =
+  'Whole units by largest remainder: each occasion at or over the threshold gets the whole part ' +
+  'of its share (units x its absorbable phosphorus / the day total of eligible occasions); the ' +
+  'units left go one each to the largest fractional parts. Ties go to the occasion with more ' +
+  'absorbable phosphorus, then to the earlier occasion of the day. The total never exceeds ' +
+  'the prescription.';
+
+const r0 = (x: number) => Math.round(x);
+const r2 = (x: number) => Math.round(x * 100) / 100;
+
+/**
+ * Spreads one day's prescribed binder units over its occasions (pure; no dose is invented).
+ * `dietCalciumMg` is the day's calcium from food, for the KDOQI 2003 total-calcium check.
+ */
+export function distributeBinder(
+  prescription: BinderPrescription,
+  occasions: readonly OccasionLoad[],
+  thresholds: BinderThresholds,
+  dietCalciumMg: number,
+): DayBinderSchedule {
+  const info = BINDER_CATALOGUE[prescription.ingredient];
+  const minMg = thresholds.minAbsorbableMgPerOccasion;
+  const eligible = (o: OccasionLoad) => o.absorbableMg >= minMg && o.absorbableMg > 0;
+  const disagreements: Disagreement[] = [];
+  const units = new Array<number>(occasions.length).fill(0);
+  const shares = new Array<number | null>(occasions.length).fill(null);
+  const reasons = new Array<string>(occasions.length).fill('');
+  let prescribedUnits: number;
+
+  const underText = (o: OccasionLoad) =>
+    `${r0(o.absorbableMg)} mg absorbable phosphorus is under the clinic threshold of ${minMg} mg: no binder here.`;
+
+  if (prescription.schedule === 'per-day') {
+    prescribedUnits = prescription.units;
+    const idx = occasions.map((_, i) => i).filter((i) => eligible(occasions[i] as OccasionLoad));
+    const totalMg = idx.reduce((s, i) => s + (occasions[i] as OccasionLoad).absorbableMg, 0);
+    if (idx.length === 0) {
+      occasions.forEach((o, i) => (reasons[i] = underText(o)));
+      if (occasions.length > 0)
+        disagreements.push({
+          code: 'no-occasion-over-threshold',
+          occasion: null,
+          message: `${prescribedUnits} units a day are prescribed but no occasion of this day reaches the ${minMg} mg threshold: ask the care team how to take them with this plan.`,
+        });
+    } else {
+      const floors = new Map<number, number>();
+      for (const i of idx) {
+        const share = (prescribedUnits * (occasions[i] as OccasionLoad).absorbableMg) / totalMg;
+        shares[i] = share;
+        floors.set(i, Math.floor(share));
+      }
+      let left = prescribedUnits - [...floors.values()].reduce((a, b) => a + b, 0);
+      const order = [...idx].sort((a, b) => {
+        const fa = (shares[a] as number) - Math.floor(shares[a] as number);
+        const fb = (shares[b] as number) - Math.floor(shares[b] as number);
+        // Fractions equal to 1e-9 count as ties (floating point of equal loads).
+        if (Math.abs(fa - fb) > 1e-9) return fb - fa;
+        const la = (occasions[a] as OccasionLoad).absorbableMg;
+        const lb = (occasions[b] as OccasionLoad).absorbableMg;
+        if (la !== lb) return lb - la;
+        return a - b;
+      });
+      const extra = new Set<number>();
+      for (const i of order) {
+        if (left <= 0) break;
+        extra.add(i);
+        left--;
+      }
+      for (const i of idx) {
+        const o = occasions[i] as OccasionLoad;
+        const share = shares[i] as number;
+        const whole = floors.get(i) as number;
+        units[i] = whole + (extra.has(i) ? 1 : 0);
+        const pct = ((100 * o.absorbableMg) / totalMg).toFixed(1);
+        const frac = (share - whole).toFixed(2);
+        reasons[i] =
+          `${r0(o.absorbableMg)} of ${r0(totalMg)} mg absorbable phosphorus in occasions over the threshold (${pct}%) x ${prescribedUnits} units = ${share.toFixed(2)}: ` +
+          `${whole} whole` +
+          (extra.has(i)
+            ? ` + 1 of the remaining units (remainder ${frac} is among the largest).`
+            : whole === share
+              ? '.'
+              : ` (remainder ${frac} too small for one of the remaining units).`);
+      }
+      occasions.forEach((o, i) => {
+        if (!eligible(o)) reasons[i] = underText(o);
+      });
+    }
+  } else {
+    const meals = occasions.filter((o) => o.kind === 'meal');
+    prescribedUnits = prescription.units * meals.length;
+    occasions.forEach((o, i) => {
+      if (o.kind !== 'meal') {
+        reasons[i] =
+          `The prescription says ${prescription.units} with each meal; this is a snack: no binder here.`;
+      } else if (!eligible(o)) {
+        reasons[i] = `${underText(o)} The prescription says ${prescription.units} with each meal.`;
+        disagreements.push({
+          code: 'meal-under-threshold',
+          occasion: o.name,
+          message: `${o.name}: the prescription says ${prescription.units} with each meal, but this meal's estimated ${r0(o.absorbableMg)} mg absorbable phosphorus is under the ${minMg} mg threshold: confirm with the prescriber.`,
+        });
+      } else {
+        units[i] = prescription.units;
+        reasons[i] =
+          `The prescription says ${prescription.units} with each meal; ${r0(o.absorbableMg)} mg absorbable phosphorus is at or over the ${minMg} mg threshold.`;
+      }
+    });
+  }
+
+  const pbedUnit = pbedGPerUnit(prescription.ingredient, prescription.unitStrengthMg);
+  occasions.forEach((o, i) => {
+    const n = units[i] as number;
+    if (n === 0 && o.absorbableMg >= thresholds.highLoadOccasionMg) {
+      disagreements.push({
+        code: 'high-load-no-binder',
+        occasion: o.name,
+        message: `${o.name}: an estimated ${r0(o.absorbableMg)} mg absorbable phosphorus (at or over ${thresholds.highLoadOccasionMg} mg) but no binder in the prescription for it.`,
+      });
+    }
+    if (n > 0 && pbedUnit !== null) {
+      const bindsMg = n * pbedUnit * BOUND_MG_P_PER_PBED_G;
+      if (bindsMg > o.absorbableMg) {
+        disagreements.push({
+          code: 'binder-exceeds-load',
+          occasion: o.name,
+          message: `${o.name}: ${n} unit(s) could bind about ${r0(bindsMg)} mg phosphorus, more than the estimated ${r0(o.absorbableMg)} mg absorbable here.`,
+        });
+      }
+    }
+  });
+
+  const distributedUnits = units.reduce((a, b) => a + b, 0);
+  const caFromBinders =
+    prescribedUnits *
+    elementalCalciumMgPerUnit(prescription.ingredient, prescription.unitStrengthMg);
+  const caTotal = caFromBinders + dietCalciumMg;
+  if (caFromBinders > KDOQI_2003_CALCIUM_LIMITS.fromBindersMaxMg) {
+    disagreements.push({
+      code: 'calcium-from-binders-over-limit',
+      occasion: null,
+      message: `Elemental calcium from the binder is ${r0(caFromBinders)} mg/day, over the KDOQI 2003 limit of ${KDOQI_2003_CALCIUM_LIMITS.fromBindersMaxMg} mg/day: for the care team to review.`,
+    });
+  }
+  if (caFromBinders > 0 && caTotal > KDOQI_2003_CALCIUM_LIMITS.totalMaxMg) {
+    disagreements.push({
+      code: 'calcium-total-over-limit',
+      occasion: null,
+      message: `Elemental calcium from binder and diet is ${r0(caTotal)} mg/day, over the KDOQI 2003 limit of ${KDOQI_2003_CALCIUM_LIMITS.totalMaxMg} mg/day: for the care team to review.`,
+    });
+  }
+
+  return {
+    prescribedUnits,
+    distributedUnits,
+    occasions: occasions.map((o, i) => ({
+      occasion: o.name,
+      time: o.time ?? null,
+      absorbableMg: r2(o.absorbableMg),
+      units: units[i] as number,
+      exactShare: shares[i] === null ? null : r2(shares[i] as number),
+      reason: reasons[i] as string,
+      timing: (units[i] as number) > 0 ? info.timing : 'No binder with this occasion.',
+    })),
+    pbedGPerDay: pbedUnit === null ? null : r2(pbedUnit * prescribedUnits),
+    elementalCalciumMgFromBinders: r2(caFromBinders),
+    elementalCalciumMgTotal: r2(caTotal),
+    disagreements,
+  };
+}

@@ -1,0 +1,175 @@
+import { z } from 'zod';
+import { binderPrescriptionSchema, type BinderPrescription } from '../binders/binder.js';
+import {
+  PLAUSIBLE_MG_PER_DL,
+  convertLab,
+  toMgPerDl,
+  type LabAnalyte,
+  type LabUnit,
+} from './labs.js';
+
+export const CKD_STAGES = ['3a', '3b', '4', '5'] as const;
+export type CkdStage = (typeof CKD_STAGES)[number];
+export const DIALYSIS_MODALITIES = ['none', 'hemodialysis', 'peritoneal-dialysis'] as const;
+export type Dialysis = (typeof DIALYSIS_MODALITIES)[number];
+
+const isoDate = z
+  .string()
+  .regex(/^\d{4}-\d{2}-\d{2}$/, 'date must be YYYY-MM-DD')
+  .refine(
+    (s) =>
+      !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) &&
+      new Date(`${s}T00:00:00Z`).toISOString().startsWith(s),
+    'date is not a real calendar date',
+  );
+
+export const labResultInputSchema = z
+  .object({
+    analyte: z.enum(['phosphate', 'calcium']),
+    value: z.number({ error: 'value must be a number' }).positive('value must be greater than 0'),
+    unit: z.enum(['mg/dL', 'mmol/L']),
+    date: isoDate,
+  })
+  .strict()
+  .superRefine((lab, ctx) => {
+    const mg = toMgPerDl(lab.analyte, lab.value, lab.unit);
+    const range = PLAUSIBLE_MG_PER_DL[lab.analyte];
+    if (mg < range.min || mg > range.max) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['value'],
+        message: `${lab.analyte} ${lab.value} ${lab.unit} is outside ${range.min}-${range.max} mg/dL: check the value and its unit`,
+      });
+    }
+  });
+export type LabResultInput = z.infer<typeof labResultInputSchema>;
+
+const rangeOverride = z
+  .object({
+    min: z.number().nonnegative().nullable(),
+    max: z.number().positive().nullable(),
+  })
+  .strict()
+  .refine((r) => r.min === null || r.max === null || r.min <= r.max, {
+    message: 'min must not be greater than max',
+    path: ['min'],
+  });
+
+/** Dietitian's values replacing a computed default (absolute amounts per day). */
+export const targetOverridesSchema = z
+  .object({
+    proteinG: rangeOverride.optional(),
+    energyKcal: rangeOverride.optional(),
+    sodiumMg: rangeOverride.optional(),
+    phosphorusMg: rangeOverride.optional(),
+    potassiumMg: rangeOverride.optional(),
+  })
+  .strict();
+export type TargetOverrides = z.infer<typeof targetOverridesSchema>;
+
+const patientFields = {
+  label: z.string().trim().min(1, 'label (clinic label or pseudonym) is required').max(80),
+  name: z.string().trim().min(1).max(200).nullable().default(null),
+  language: z
+    .string()
+    .regex(
+      /^[a-z]{2,3}(-[A-Za-z0-9]{2,8})*$/,
+      "language must be a BCP-47 tag such as 'es' or 'pt-BR'",
+    )
+    .default('en'),
+  weightKg: z
+    .number({ error: 'weightKg must be a number (kg)' })
+    .min(20, 'weightKg must be between 20 and 300 kg')
+    .max(300, 'weightKg must be between 20 and 300 kg'),
+  ckdStage: z.enum(CKD_STAGES, { error: "ckdStage must be one of '3a', '3b', '4', '5'" }),
+  dialysis: z.enum(DIALYSIS_MODALITIES).default('none'),
+  diabetes: z.boolean(),
+  labs: z.array(labResultInputSchema).max(200).default([]),
+  binder: binderPrescriptionSchema.nullable().default(null),
+  targetOverrides: targetOverridesSchema.default({}),
+};
+
+/** Dialysis means stage 5D: a stage 3a-4 record on dialysis is a contradiction. */
+function checkStageModality(
+  p: { ckdStage?: CkdStage | undefined; dialysis?: Dialysis | undefined },
+  ctx: z.RefinementCtx,
+) {
+  if (p.dialysis && p.dialysis !== 'none' && p.ckdStage && p.ckdStage !== '5') {
+    ctx.addIssue({
+      code: 'custom',
+      path: ['ckdStage'],
+      message: `ckdStage '${p.ckdStage}' conflicts with dialysis '${p.dialysis}': a patient on dialysis is stage 5 (5D)`,
+    });
+  }
+}
+
+export const patientInputSchema = z.object(patientFields).strict().superRefine(checkStageModality);
+export type PatientInput = z.infer<typeof patientInputSchema>;
+
+/** A patient as the domain sees it. */
+export interface Patient {
+  id: number;
+  label: string;
+  name: string | null;
+  language: string;
+  /** The weight the clinician chose for targets (actual, ideal or adjusted), kg. */
+  weightKg: number;
+  ckdStage: CkdStage;
+  dialysis: Dialysis;
+  diabetes: boolean;
+  labs: LabResult[];
+  binder: BinderPrescription | null;
+  targetOverrides: TargetOverrides;
+  isDemo: boolean;
+  createdAt: string;
+  updatedAt: string;
+}
+
+export interface LabResult {
+  analyte: LabAnalyte;
+  value: number;
+  unit: LabUnit;
+  date: string;
+  mgPerDl: number;
+  mmolPerL: number;
+}
+
+/** Adds both units to entered lab results, newest first. */
+export function withConvertedLabs(labs: readonly LabResultInput[]): LabResult[] {
+  return [...labs]
+    .sort((a, b) => b.date.localeCompare(a.date))
+    .map((l) => ({ ...l, ...convertLab(l.analyte, l.value, l.unit) }));
+}
+
+export const patientUpdateSchema = z
+  .object({
+    label: patientFields.label.optional(),
+    name: z.string().trim().min(1).max(200).nullable().optional(),
+    language: patientFields.language.optional(),
+    weightKg: patientFields.weightKg.optional(),
+    ckdStage: patientFields.ckdStage.optional(),
+    dialysis: z.enum(DIALYSIS_MODALITIES).optional(),
+    diabetes: z.boolean().optional(),
+    labs: z.array(labResultInputSchema).max(200).optional(),
+    binder: binderPrescriptionSchema.nullable().optional(),
+    targetOverrides: targetOverridesSchema.optional(),
+  })
+  .strict()
+  .superRefine(checkStageModality);
+export type PatientUpdate = z.infer<typeof patientUpdateSchema>;
+
+/** The input shape of a stored patient (to re-validate a merged update). */
+export function patientToInput(p: Patient): PatientInput {
+  return {
+    label: p.label,
+    name: p.name,
+    language: p.language,
+    weightKg: p.weightKg,
+    ckdStage: p.ckdStage,
+    dialysis: p.dialysis,
+    diabetes: p.diabetes,
+    labs: p.labs.map(({ analyte, value, unit, date }) => ({ analyte, value, unit, date })),
+    binder: p.binder,
+    targetOverrides: p.targetOverrides,
+  };
+}
