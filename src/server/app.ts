@@ -10,6 +10,7 @@ import {
 import type { Clock } from '../clock.js';
 import type { Config } from '../config.js';
 import type { Db } from '../db/database.js';
+import { registerSecurity, type AuthOptions } from '../auth/security.js';
 import { foodRoutes } from '../foods/foods.routes.js';
 import { registerErrorHandler } from './error-handler.js';
 
@@ -20,6 +21,10 @@ export interface AppDeps {
   config?: Partial<Config>;
   /** Fastify logger options; tests pass false. Never log bodies: they may hold patient data. */
   logger?: FastifyServerOptions['logger'];
+  /** Session timeouts, lock-out and password cost; tests pass cheap hashing. */
+  auth?: AuthOptions;
+  /** Serve HTTPS with this PEM key and certificate (`serve --tls-cert/--tls-key`). */
+  https?: { key: Buffer; cert: Buffer };
 }
 
 declare module 'fastify' {
@@ -33,13 +38,18 @@ export type App = FastifyInstance;
 
 /** Builds the HTTP application without listening. */
 export async function buildApp(deps: AppDeps): Promise<App> {
-  const app = Fastify({
-    logger: deps.logger ?? false,
-    bodyLimit: 60 * 1024 * 1024,
-  });
+  const options = { logger: deps.logger ?? false, bodyLimit: 60 * 1024 * 1024 };
+  const app = (
+    deps.https ? Fastify({ ...options, https: deps.https }) : Fastify(options)
+  ) as FastifyInstance;
   app.setValidatorCompiler(validatorCompiler);
   app.setSerializerCompiler(serializerCompiler);
   registerErrorHandler(app);
+  await registerSecurity(app, {
+    db: deps.db,
+    clock: deps.clock,
+    ...(deps.auth ? { auth: deps.auth } : {}),
+  });
 
   await app.register(swagger, {
     openapi: {

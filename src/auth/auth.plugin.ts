@@ -1,0 +1,137 @@
+import cookie from '@fastify/cookie';
+import type { FastifyInstance, FastifyReply, FastifyRequest } from 'fastify';
+import type { Clock } from '../clock.js';
+import type { Db } from '../db/database.js';
+import { AppError } from '../errors.js';
+import {
+  CSRF_HEADER,
+  DEFAULT_AUTH_POLICY,
+  SESSION_COOKIE,
+  type AuthPolicy,
+  type AuthUser,
+  type Role,
+} from './auth.js';
+import { AuthService, type ActiveSession } from './auth.service.js';
+import { DEFAULT_SCRYPT_PARAMS, type ScryptParams } from './password.js';
+import { setSecurityHeaders } from './security-headers.js';
+import { sameSecret } from './tokens.js';
+
+declare module 'fastify' {
+  interface FastifyRequest {
+    /** The signed-in user, or null on public routes answered anonymously. */
+    user: AuthUser | null;
+    /** The session behind the cookie (never the token itself). */
+    authSession: ActiveSession | null;
+  }
+  interface FastifyContextConfig {
+    /** Only users with this role may call the route (403 otherwise). */
+    role?: Role;
+  }
+  interface FastifyInstance {
+    auth: AuthService;
+  }
+}
+
+export interface AuthOptions {
+  policy?: Partial<AuthPolicy>;
+  /** Password hashing cost; tests pass TEST_SCRYPT_PARAMS. */
+  scryptParams?: ScryptParams;
+}
+
+const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
+
+export function sessionCookieOptions(request: FastifyRequest, policy: AuthPolicy) {
+  return {
+    path: '/',
+    httpOnly: true,
+    sameSite: 'strict' as const,
+    secure: policy.secureCookies === 'always' || request.protocol === 'https',
+  };
+}
+
+export function clearSessionCookie(
+  request: FastifyRequest,
+  reply: FastifyReply,
+  policy: AuthPolicy,
+) {
+  reply.clearCookie(SESSION_COOKIE, sessionCookieOptions(request, policy));
+}
+
+/** Rejects state-changing requests that a browser sent from another site (login CSRF too). */
+function checkOrigin(request: FastifyRequest): void {
+  const site = request.headers['sec-fetch-site'];
+  if (site === 'cross-site' || site === 'same-site') {
+    throw new AppError('PHL_AUTH_CROSS_SITE', 403, 'cross-site requests are refused');
+  }
+  const origin = request.headers.origin;
+  if (origin === undefined) return;
+  let host: string | null = null;
+  try {
+    host = origin === 'null' ? null : new URL(origin).host;
+  } catch {
+    host = null;
+  }
+  if (host === null || host !== request.headers.host) {
+    throw new AppError('PHL_AUTH_CROSS_SITE', 403, 'cross-site requests are refused');
+  }
+}
+
+/**
+ * Installs accounts on the root instance: cookies, `request.user`, the global hook that answers
+ * 401 on every route without `config.public`, CSRF checks, role checks and security headers.
+ */
+export async function registerAuth(
+  app: FastifyInstance,
+  deps: { db: Db; clock: Clock } & AuthOptions,
+): Promise<AuthService> {
+  const policy: AuthPolicy = { ...DEFAULT_AUTH_POLICY, ...deps.policy };
+  const service = new AuthService(
+    deps.db,
+    deps.clock,
+    policy,
+    deps.scryptParams ?? DEFAULT_SCRYPT_PARAMS,
+  );
+  await app.register(cookie);
+  app.decorate('auth', service);
+  app.decorateRequest('user', null);
+  app.decorateRequest('authSession', null);
+
+  app.addHook('onRequest', async (request, reply) => {
+    setSecurityHeaders(request, reply);
+    const config = request.routeOptions.config;
+    // Unknown routes answer 404 whoever asks: nothing behind them to protect.
+    const isPublic = config?.public === true || request.is404;
+    const unsafe = !SAFE_METHODS.has(request.method);
+    if (unsafe) checkOrigin(request);
+
+    const token = request.cookies[SESSION_COOKIE];
+    if (token) {
+      const found = await service.authenticate(token);
+      if (found) {
+        request.user = found.user;
+        request.authSession = found.session;
+      } else {
+        clearSessionCookie(request, reply, policy);
+      }
+    }
+    if (!request.user) {
+      if (isPublic) return;
+      throw new AppError('PHL_AUTH_REQUIRED', 401, 'sign in first');
+    }
+    // OWASP CSRF cheat sheet: a per-session synchronizer token in a custom header.
+    if (unsafe) {
+      const sent = request.headers[CSRF_HEADER];
+      if (typeof sent !== 'string' || !sameSecret(sent, request.authSession!.csrfToken)) {
+        throw new AppError(
+          'PHL_AUTH_CSRF',
+          403,
+          `missing or wrong ${CSRF_HEADER} header (get it from GET /api/session)`,
+        );
+      }
+    }
+    if (config?.role && request.user.role !== config.role) {
+      throw new AppError('PHL_AUTH_FORBIDDEN', 403, `this needs the ${config.role} role`);
+    }
+  });
+  return service;
+}

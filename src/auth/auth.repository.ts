@@ -1,0 +1,175 @@
+import type { Kysely, Selectable } from 'kysely';
+import type { DB } from '../db/schema.js';
+import type { AppSessionTable, AppUserTable, SignInThrottleTable } from './auth.tables.js';
+import type { AuthUser, Role } from './auth.js';
+
+export type UserRow = Selectable<AppUserTable>;
+export type SessionRow = Selectable<AppSessionTable>;
+export type ThrottleRow = Selectable<SignInThrottleTable>;
+
+export function rowToUser(row: Pick<UserRow, 'id' | 'username' | 'role'>): AuthUser {
+  return { id: row.id, username: row.username, role: row.role };
+}
+
+/** All SQL for accounts, sessions, throttling and set-up tokens. */
+export class AuthRepository {
+  constructor(private readonly db: Kysely<DB>) {}
+
+  // users
+  findUserByName(username: string): Promise<UserRow | undefined> {
+    return this.db
+      .selectFrom('app_user')
+      .selectAll()
+      .where('username', '=', username)
+      .executeTakeFirst();
+  }
+
+  findUser(id: number): Promise<UserRow | undefined> {
+    return this.db.selectFrom('app_user').selectAll().where('id', '=', id).executeTakeFirst();
+  }
+
+  listUsers(): Promise<UserRow[]> {
+    return this.db.selectFrom('app_user').selectAll().orderBy('username').execute();
+  }
+
+  async countAdmins(): Promise<number> {
+    const row = await this.db
+      .selectFrom('app_user')
+      .select((eb) => eb.fn.countAll<number>().as('n'))
+      .where('role', '=', 'admin')
+      .where('disabled', '=', 0)
+      .executeTakeFirstOrThrow();
+    return Number(row.n);
+  }
+
+  async insertUser(u: {
+    username: string;
+    role: Role;
+    passwordHash: string;
+    at: string;
+  }): Promise<number> {
+    const row = await this.db
+      .insertInto('app_user')
+      .values({
+        username: u.username,
+        role: u.role,
+        password_hash: u.passwordHash,
+        created_at: u.at,
+        updated_at: u.at,
+      })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    return row.id;
+  }
+
+  async updateUser(
+    id: number,
+    patch: { role?: Role; disabled?: boolean; passwordHash?: string; lastSignInAt?: string },
+    at: string,
+  ): Promise<void> {
+    await this.db
+      .updateTable('app_user')
+      .set({
+        updated_at: at,
+        ...(patch.role !== undefined ? { role: patch.role } : {}),
+        ...(patch.disabled !== undefined ? { disabled: patch.disabled ? 1 : 0 } : {}),
+        ...(patch.passwordHash !== undefined ? { password_hash: patch.passwordHash } : {}),
+        ...(patch.lastSignInAt !== undefined ? { last_sign_in_at: patch.lastSignInAt } : {}),
+      })
+      .where('id', '=', id)
+      .execute();
+  }
+
+  // sessions
+  async insertSession(s: SessionRow): Promise<void> {
+    await this.db.insertInto('app_session').values(s).execute();
+  }
+
+  findSession(
+    tokenHash: string,
+  ): Promise<(SessionRow & { username: string; role: Role; disabled: number }) | undefined> {
+    return this.db
+      .selectFrom('app_session')
+      .innerJoin('app_user', 'app_user.id', 'app_session.user_id')
+      .selectAll('app_session')
+      .select(['app_user.username', 'app_user.role', 'app_user.disabled'])
+      .where('app_session.token_hash', '=', tokenHash)
+      .executeTakeFirst();
+  }
+
+  async touchSession(tokenHash: string, lastSeenAt: string, idleExpiresAt: string): Promise<void> {
+    await this.db
+      .updateTable('app_session')
+      .set({ last_seen_at: lastSeenAt, idle_expires_at: idleExpiresAt })
+      .where('token_hash', '=', tokenHash)
+      .execute();
+  }
+
+  async deleteSession(tokenHash: string): Promise<void> {
+    await this.db.deleteFrom('app_session').where('token_hash', '=', tokenHash).execute();
+  }
+
+  async deleteUserSessions(userId: number): Promise<number> {
+    const r = await this.db.deleteFrom('app_session').where('user_id', '=', userId).execute();
+    return Number(r[0]?.numDeletedRows ?? 0);
+  }
+
+  async deleteExpiredSessions(now: string): Promise<void> {
+    await this.db
+      .deleteFrom('app_session')
+      .where((eb) =>
+        eb.or([eb('idle_expires_at', '<=', now), eb('absolute_expires_at', '<=', now)]),
+      )
+      .execute();
+  }
+
+  // sign-in throttling
+  findThrottle(key: string): Promise<ThrottleRow | undefined> {
+    return this.db
+      .selectFrom('sign_in_throttle')
+      .selectAll()
+      .where('key', '=', key)
+      .executeTakeFirst();
+  }
+
+  async saveThrottle(row: ThrottleRow): Promise<void> {
+    await this.db
+      .insertInto('sign_in_throttle')
+      .values(row)
+      .onConflict((oc) =>
+        oc.column('key').doUpdateSet({
+          failures: row.failures,
+          window_started_at: row.window_started_at,
+          locked_until: row.locked_until,
+        }),
+      )
+      .execute();
+  }
+
+  async clearThrottle(key: string): Promise<void> {
+    await this.db.deleteFrom('sign_in_throttle').where('key', '=', key).execute();
+  }
+
+  // first-run set-up
+  async replaceSetupToken(tokenHash: string, at: string, expiresAt: string): Promise<void> {
+    await this.db.transaction().execute(async (trx) => {
+      await trx.deleteFrom('setup_token').execute();
+      await trx
+        .insertInto('setup_token')
+        .values({ token_hash: tokenHash, created_at: at, expires_at: expiresAt })
+        .execute();
+    });
+  }
+
+  findSetupToken(tokenHash: string) {
+    return this.db
+      .selectFrom('setup_token')
+      .selectAll()
+      .where('token_hash', '=', tokenHash)
+      .executeTakeFirst();
+  }
+
+  async clearSetupTokens(): Promise<void> {
+    await this.db.deleteFrom('setup_token').execute();
+  }
+}

@@ -1,0 +1,343 @@
+import type { Clock } from '../clock.js';
+import type { Db } from '../db/database.js';
+import { AppError } from '../errors.js';
+import { AuthRepository, rowToUser, type ThrottleRow } from './auth.repository.js';
+import { usernameSchema, type AuthPolicy, type AuthUser, type Role } from './auth.js';
+import {
+  DEFAULT_SCRYPT_PARAMS,
+  hashPassword,
+  needsRehash,
+  passwordProblem,
+  verifyPassword,
+  type ScryptParams,
+} from './password.js';
+import { activeFailures, afterFailure, lockedUntil, type ThrottleState } from './throttle.js';
+import { newToken, tokenHash } from './tokens.js';
+
+/** A live session as the auth hook sees it. The token itself is never stored. */
+export interface ActiveSession {
+  tokenHash: string;
+  csrfToken: string;
+  createdAt: string;
+  idleExpiresAt: string;
+  absoluteExpiresAt: string;
+}
+
+export interface SignedIn {
+  user: AuthUser;
+  /** The cookie value; handed to the client once and never stored. */
+  token: string;
+  session: ActiveSession;
+}
+
+export class AuthError extends AppError {}
+
+const invalidCredentials = () =>
+  new AuthError('PHL_AUTH_INVALID_CREDENTIALS', 401, 'username or password is wrong');
+
+function toState(row: ThrottleRow | undefined): ThrottleState | undefined {
+  if (!row) return undefined;
+  return {
+    failures: row.failures,
+    windowStartedAt: new Date(row.window_started_at),
+    lockedUntil: row.locked_until ? new Date(row.locked_until) : null,
+  };
+}
+
+/** Accounts, sign-in with lock-out, sessions and the first-run set-up token. */
+export class AuthService {
+  private readonly repo: AuthRepository;
+  /** Attempts whose password check is still running, per throttle key. */
+  private readonly inFlight = new Map<string, number>();
+  private dummyHash: Promise<string> | undefined;
+
+  constructor(
+    db: Db,
+    private readonly clock: Clock,
+    readonly policy: AuthPolicy,
+    private readonly scryptParams: ScryptParams = DEFAULT_SCRYPT_PARAMS,
+  ) {
+    this.repo = new AuthRepository(db.kysely);
+  }
+
+  private now(): Date {
+    return this.clock.now();
+  }
+
+  /** Validates and normalises a username, or throws 400. */
+  static normaliseUsername(username: string): string {
+    const parsed = usernameSchema.safeParse(username);
+    if (!parsed.success) {
+      throw new AppError(
+        'PHL_AUTH_USERNAME_INVALID',
+        400,
+        `username: ${parsed.error.issues[0]?.message ?? 'invalid'}`,
+      );
+    }
+    return parsed.data;
+  }
+
+  async createUser(username: string, role: Role, password: string): Promise<AuthUser> {
+    const name = AuthService.normaliseUsername(username);
+    const problem = passwordProblem(password, name);
+    if (problem) throw new AppError('PHL_AUTH_PASSWORD_WEAK', 400, problem);
+    if (await this.repo.findUserByName(name)) {
+      throw new AppError('PHL_AUTH_USERNAME_TAKEN', 409, `username ${name} is already taken`);
+    }
+    const passwordHash = await hashPassword(password, this.scryptParams);
+    const id = await this.repo.insertUser({
+      username: name,
+      role,
+      passwordHash,
+      at: this.now().toISOString(),
+    });
+    return { id, username: name, role };
+  }
+
+  async listUsers() {
+    return (await this.repo.listUsers()).map((u) => ({
+      ...rowToUser(u),
+      disabled: u.disabled === 1,
+      createdAt: u.created_at,
+      lastSignInAt: u.last_sign_in_at,
+    }));
+  }
+
+  async getUser(id: number): Promise<AuthUser | null> {
+    const row = await this.repo.findUser(id);
+    return row ? rowToUser(row) : null;
+  }
+
+  async countAdmins(): Promise<number> {
+    return this.repo.countAdmins();
+  }
+
+  /** Changes role or disabled state; disabling signs the user out everywhere. */
+  async updateUser(id: number, patch: { role?: Role; disabled?: boolean }): Promise<void> {
+    const row = await this.repo.findUser(id);
+    if (!row) throw new AppError('PHL_AUTH_USER_NOT_FOUND', 404, `user ${id} not found`);
+    const losesAdmin =
+      row.role === 'admin' &&
+      row.disabled === 0 &&
+      ((patch.role !== undefined && patch.role !== 'admin') || patch.disabled === true);
+    if (losesAdmin && (await this.repo.countAdmins()) <= 1) {
+      throw new AppError('PHL_AUTH_LAST_ADMIN', 409, 'the last active admin cannot be removed');
+    }
+    await this.repo.updateUser(id, patch, this.now().toISOString());
+    if (patch.disabled) await this.repo.deleteUserSessions(id);
+  }
+
+  async setPassword(id: number, password: string): Promise<void> {
+    const row = await this.repo.findUser(id);
+    if (!row) throw new AppError('PHL_AUTH_USER_NOT_FOUND', 404, `user ${id} not found`);
+    const problem = passwordProblem(password, row.username);
+    if (problem) throw new AppError('PHL_AUTH_PASSWORD_WEAK', 400, problem);
+    const passwordHash = await hashPassword(password, this.scryptParams);
+    await this.repo.updateUser(id, { passwordHash }, this.now().toISOString());
+  }
+
+  /** Checks a user's current password (for password change); no throttling beyond the session. */
+  async checkPassword(id: number, password: string): Promise<boolean> {
+    const row = await this.repo.findUser(id);
+    return row ? verifyPassword(password, row.password_hash) : false;
+  }
+
+  private rules() {
+    const p = this.policy;
+    return {
+      user: { limit: p.userFailureLimit, windowMs: p.failureWindowMs, lockoutMs: p.lockoutMs },
+      address: {
+        limit: p.addressFailureLimit,
+        windowMs: p.failureWindowMs,
+        lockoutMs: p.lockoutMs,
+      },
+    };
+  }
+
+  private async recordFailure(key: string, rule: ReturnType<AuthService['rules']>['user']) {
+    const now = this.now();
+    const next = afterFailure(toState(await this.repo.findThrottle(key)), now, rule);
+    await this.repo.saveThrottle({
+      key,
+      failures: next.failures,
+      window_started_at: next.windowStartedAt.toISOString(),
+      locked_until: next.lockedUntil?.toISOString() ?? null,
+    });
+  }
+
+  /**
+   * Signs in. Unknown usernames cost the same scrypt work as known ones and count towards
+   * lock-out the same way, so neither timing nor lock-out tells which accounts exist.
+   */
+  async signIn(username: string, password: string, address: string): Promise<SignedIn> {
+    const name = username.trim().toLowerCase();
+    const keys = { user: `user:${name}`, address: `ip:${address}` };
+    const rules = this.rules();
+    const now = this.now();
+    const throttles = {
+      user: toState(await this.repo.findThrottle(keys.user)),
+      address: toState(await this.repo.findThrottle(keys.address)),
+    };
+    for (const which of ['user', 'address'] as const) {
+      const key = keys[which];
+      const until = lockedUntil(throttles[which], now);
+      // Attempts still being checked count too, so a burst cannot outrun the counter.
+      const pending = this.inFlight.get(key) ?? 0;
+      const counted = activeFailures(throttles[which], now, rules[which]) + pending;
+      if (until || counted >= rules[which].limit) {
+        const retryAfterS = until ? Math.ceil((until.getTime() - now.getTime()) / 1000) : 1;
+        throw new AuthError(
+          'PHL_AUTH_LOCKED',
+          429,
+          'too many failed sign-ins: try again later or ask the clinic admin',
+          { retryAfterS },
+        );
+      }
+    }
+    const bump = (d: number) => {
+      for (const key of [keys.user, keys.address]) {
+        const n = (this.inFlight.get(key) ?? 0) + d;
+        if (n > 0) this.inFlight.set(key, n);
+        else this.inFlight.delete(key);
+      }
+    };
+    bump(1);
+    let row;
+    let ok: boolean;
+    try {
+      row = await this.repo.findUserByName(name);
+      this.dummyHash ??= hashPassword('not a real password', this.scryptParams);
+      ok = await verifyPassword(password, row?.password_hash ?? (await this.dummyHash));
+    } finally {
+      bump(-1);
+    }
+    if (!row || !ok || row.disabled === 1) {
+      await this.recordFailure(keys.user, rules.user);
+      await this.recordFailure(keys.address, rules.address);
+      throw invalidCredentials();
+    }
+    await this.repo.clearThrottle(keys.user);
+    const at = this.now().toISOString();
+    const rehash = needsRehash(row.password_hash, this.scryptParams)
+      ? await hashPassword(password, this.scryptParams)
+      : undefined;
+    await this.repo.updateUser(
+      row.id,
+      { lastSignInAt: at, ...(rehash ? { passwordHash: rehash } : {}) },
+      at,
+    );
+    return this.openSession(rowToUser(row));
+  }
+
+  /** Starts a session for a user whose identity is already established. */
+  async openSession(user: AuthUser): Promise<SignedIn> {
+    const now = this.now();
+    const token = newToken();
+    const absolute = new Date(now.getTime() + this.policy.absoluteTimeoutMs);
+    const idle = new Date(Math.min(now.getTime() + this.policy.idleTimeoutMs, absolute.getTime()));
+    const session: ActiveSession = {
+      tokenHash: tokenHash(token),
+      csrfToken: newToken(),
+      createdAt: now.toISOString(),
+      idleExpiresAt: idle.toISOString(),
+      absoluteExpiresAt: absolute.toISOString(),
+    };
+    await this.repo.insertSession({
+      token_hash: session.tokenHash,
+      user_id: user.id,
+      csrf_token: session.csrfToken,
+      created_at: session.createdAt,
+      last_seen_at: session.createdAt,
+      idle_expires_at: session.idleExpiresAt,
+      absolute_expires_at: session.absoluteExpiresAt,
+    });
+    return { user, token, session };
+  }
+
+  /** The user and session behind a cookie token, or null; extends the idle deadline. */
+  async authenticate(token: string): Promise<{ user: AuthUser; session: ActiveSession } | null> {
+    if (token.length < 20 || token.length > 100) return null;
+    const hash = tokenHash(token);
+    const row = await this.repo.findSession(hash);
+    if (!row) return null;
+    const now = this.now();
+    const nowMs = now.getTime();
+    if (
+      nowMs >= Date.parse(row.idle_expires_at) ||
+      nowMs >= Date.parse(row.absolute_expires_at) ||
+      row.disabled === 1
+    ) {
+      await this.repo.deleteSession(hash);
+      return null;
+    }
+    let idleExpiresAt = row.idle_expires_at;
+    if (nowMs - Date.parse(row.last_seen_at) >= this.policy.touchIntervalMs) {
+      idleExpiresAt = new Date(
+        Math.min(nowMs + this.policy.idleTimeoutMs, Date.parse(row.absolute_expires_at)),
+      ).toISOString();
+      await this.repo.touchSession(hash, now.toISOString(), idleExpiresAt);
+    }
+    return {
+      user: { id: row.user_id, username: row.username, role: row.role },
+      session: {
+        tokenHash: hash,
+        csrfToken: row.csrf_token,
+        createdAt: row.created_at,
+        idleExpiresAt,
+        absoluteExpiresAt: row.absolute_expires_at,
+      },
+    };
+  }
+
+  async signOut(session: ActiveSession): Promise<void> {
+    await this.repo.deleteSession(session.tokenHash);
+  }
+
+  /** Ends every session of a user, on every device. Returns how many ended. */
+  async signOutEverywhere(userId: number): Promise<number> {
+    return this.repo.deleteUserSessions(userId);
+  }
+
+  async purgeExpiredSessions(): Promise<void> {
+    await this.repo.deleteExpiredSessions(this.now().toISOString());
+  }
+
+  // first-run set-up
+
+  /** True while no active admin exists: the product cannot be administered yet. */
+  async setupNeeded(): Promise<boolean> {
+    return (await this.repo.countAdmins()) === 0;
+  }
+
+  /** Issues a new one-time set-up token (replacing any earlier one) and returns it. */
+  async issueSetupToken(): Promise<string> {
+    const token = newToken();
+    const now = this.now();
+    const expires = new Date(now.getTime() + this.policy.setupTokenTtlMs);
+    await this.repo.replaceSetupToken(tokenHash(token), now.toISOString(), expires.toISOString());
+    return token;
+  }
+
+  async setupTokenValid(token: string): Promise<boolean> {
+    if (token.length < 20 || token.length > 100) return false;
+    const row = await this.repo.findSetupToken(tokenHash(token));
+    return !!row && Date.parse(row.expires_at) > this.now().getTime();
+  }
+
+  /** Creates the first admin with a valid set-up token and consumes the token. */
+  async completeSetup(token: string, username: string, password: string): Promise<SignedIn> {
+    if (!(await this.setupNeeded())) {
+      throw new AppError('PHL_AUTH_SETUP_DONE', 409, 'set-up is already done: sign in instead');
+    }
+    if (!(await this.setupTokenValid(token))) {
+      throw new AppError(
+        'PHL_AUTH_SETUP_TOKEN_INVALID',
+        403,
+        'the set-up link is invalid or has expired: restart the server for a new one',
+      );
+    }
+    const user = await this.createUser(username, 'admin', password);
+    await this.repo.clearSetupTokens();
+    return this.openSession(user);
+  }
+}

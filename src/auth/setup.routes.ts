@@ -1,0 +1,213 @@
+import type { FastifyPluginAsync, FastifyReply } from 'fastify';
+import type { ZodTypeProvider } from 'fastify-type-provider-zod';
+import { z } from 'zod';
+import { recordAudit } from '../audit/audit.service.js';
+import type { Clock } from '../clock.js';
+import type { Db } from '../db/database.js';
+import { SESSION_COOKIE, usernameSchema } from './auth.js';
+import { sessionCookieOptions } from './auth.plugin.js';
+import type { AuthService } from './auth.service.js';
+import { MAX_PASSWORD_LENGTH, passwordProblem } from './password.js';
+
+function escapeHtml(s: string): string {
+  return s.replace(
+    /[&<>"']/g,
+    (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!,
+  );
+}
+
+function page(title: string, body: string): string {
+  return `<!doctype html>
+<html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
+<title>${escapeHtml(title)} - phosledger</title></head>
+<body><main><h1>${escapeHtml(title)}</h1>${body}</main></body></html>
+`;
+}
+
+function formPage(token: string, message: string | null, username = ''): string {
+  return page(
+    'Create the clinic admin account',
+    `<p>This link works once. The admin account manages dietitian accounts and reads the audit log.</p>
+${message ? `<p role="alert"><strong>${escapeHtml(message)}</strong></p>` : ''}
+<form method="post" action="/setup">
+<input type="hidden" name="token" value="${escapeHtml(token)}">
+<p><label>Username <input name="username" autocomplete="username" required value="${escapeHtml(username)}"></label></p>
+<p><label>Password (at least 12 characters) <input type="password" name="password" autocomplete="new-password" required></label></p>
+<p><label>Password again <input type="password" name="password2" autocomplete="new-password" required></label></p>
+<p><button type="submit">Create admin</button></p>
+</form>`,
+  );
+}
+
+const html = (reply: FastifyReply, status: number, body: string) =>
+  reply.status(status).type('text/html; charset=utf-8').send(body);
+
+/**
+ * First-run set-up: while no admin exists, the server prints a one-time link
+ * (`/setup?token=...`) on its console; opening it shows a form that creates the admin.
+ */
+export const setupRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthService }> = async (
+  app,
+  { db, clock, auth },
+) => {
+  app.addContentTypeParser(
+    'application/x-www-form-urlencoded',
+    { parseAs: 'string', bodyLimit: 16 * 1024 },
+    (_req, body, done) => {
+      done(null, Object.fromEntries(new URLSearchParams(body as string)));
+    },
+  );
+  const api = app.withTypeProvider<ZodTypeProvider>();
+  const tokenSchema = z.string().min(1).max(200);
+
+  api.get(
+    '/setup',
+    {
+      config: { public: true },
+      schema: { hide: true, querystring: z.object({ token: tokenSchema.optional() }) },
+    },
+    async (req, reply) => {
+      if (!(await auth.setupNeeded())) {
+        return html(reply, 409, page('Set-up is done', '<p><a href="/">Sign in</a>.</p>'));
+      }
+      const token = req.query.token ?? '';
+      if (!(await auth.setupTokenValid(token))) {
+        return html(
+          reply,
+          403,
+          page(
+            'This set-up link is not valid',
+            '<p>It has been used or has expired. Restart the server to print a new link, or run <code>phosledger users add NAME --role admin</code>.</p>',
+          ),
+        );
+      }
+      return html(reply, 200, formPage(token, null));
+    },
+  );
+
+  const formSchema = z.object({
+    token: tokenSchema,
+    username: z.string().max(200),
+    password: z.string().max(MAX_PASSWORD_LENGTH * 4),
+    password2: z.string().max(MAX_PASSWORD_LENGTH * 4),
+  });
+
+  api.post(
+    '/setup',
+    { config: { public: true }, schema: { hide: true, body: formSchema } },
+    async (req, reply) => {
+      const { token, username, password, password2 } = req.body;
+      if (!(await auth.setupNeeded())) {
+        return html(reply, 409, page('Set-up is done', '<p><a href="/">Sign in</a>.</p>'));
+      }
+      if (!(await auth.setupTokenValid(token))) {
+        return html(
+          reply,
+          403,
+          page('This set-up link is not valid', '<p>Restart the server for a new one.</p>'),
+        );
+      }
+      const name = usernameSchema.safeParse(username);
+      const problem = !name.success
+        ? `username: ${name.error.issues[0]?.message ?? 'invalid'}`
+        : password !== password2
+          ? 'the two passwords differ'
+          : passwordProblem(password, name.data);
+      if (problem) return html(reply, 400, formPage(token, problem, username));
+      const signedIn = await auth.completeSetup(token, username, password);
+      reply.setCookie(SESSION_COOKIE, signedIn.token, sessionCookieOptions(req, auth.policy));
+      await recordAudit(
+        db,
+        {
+          userId: signedIn.user.id,
+          action: 'setup.admin-created',
+          entity: 'user',
+          entityId: signedIn.user.id,
+        },
+        clock,
+      );
+      return html(
+        reply,
+        201,
+        page(
+          'Admin account created',
+          `<p>You are signed in as ${escapeHtml(signedIn.user.username)}. <a href="/">Open phosledger</a>.</p>`,
+        ),
+      );
+    },
+  );
+
+  api.get(
+    '/api/setup',
+    {
+      config: { public: true },
+      schema: { tags: ['accounts'], summary: 'Whether the first admin still has to be created' },
+    },
+    async () => ({ setupNeeded: await auth.setupNeeded() }),
+  );
+
+  api.post(
+    '/api/setup',
+    {
+      config: { public: true },
+      schema: {
+        tags: ['accounts'],
+        summary: 'Create the first admin with the one-time set-up token printed at start',
+        body: z.object({
+          token: tokenSchema,
+          username: z.string().min(1).max(64),
+          password: z.string().min(1).max(MAX_PASSWORD_LENGTH),
+        }),
+      },
+    },
+    async (req, reply) => {
+      const signedIn = await auth.completeSetup(
+        req.body.token,
+        req.body.username,
+        req.body.password,
+      );
+      reply.setCookie(SESSION_COOKIE, signedIn.token, sessionCookieOptions(req, auth.policy));
+      await recordAudit(
+        db,
+        {
+          userId: signedIn.user.id,
+          action: 'setup.admin-created',
+          entity: 'user',
+          entityId: signedIn.user.id,
+        },
+        clock,
+      );
+      return reply.status(201).send({
+        user: signedIn.user,
+        csrfToken: signedIn.session.csrfToken,
+        idleExpiresAt: signedIn.session.idleExpiresAt,
+        absoluteExpiresAt: signedIn.session.absoluteExpiresAt,
+      });
+    },
+  );
+};
+
+/**
+ * Run after the server listens: while no admin exists, issue a fresh one-time set-up token and
+ * print the link (the token is never written anywhere else; its hash is in the database).
+ */
+export async function announceSetup(
+  auth: AuthService,
+  baseUrl: string,
+  out: NodeJS.WritableStream,
+): Promise<string | null> {
+  if (!(await auth.setupNeeded())) return null;
+  const token = await auth.issueSetupToken();
+  const link = `${baseUrl.replace(/\/$/, '')}/setup?token=${token}`;
+  out.write(
+    [
+      '',
+      'No admin account yet. Open this one-time link to create it (valid 24 hours, or until the',
+      'next start):',
+      `  ${link}`,
+      'or run: phosledger users add <name> --role admin   (reads the password from stdin)',
+      '',
+    ].join('\n') + '\n',
+  );
+  return link;
+}
