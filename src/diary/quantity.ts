@@ -309,6 +309,10 @@ class Cursor {
   rest(): string {
     return this.s.slice(this.pos);
   }
+  /** Consumes the first of the words that comes next, if any. */
+  optional(...words: string[]): void {
+    for (const w of words) if (this.word(w)) return;
+  }
   /** Consumes a whole word (or phrase) if the text continues with it at a word boundary. */
   word(w: string): boolean {
     this.skipSpace();
@@ -379,7 +383,7 @@ function readAmount(c: Cursor): number | null {
 function readAndFraction(c: Cursor): number | null {
   const save = c.pos;
   if (c.word('and') || c.word('y') || c.word('e')) {
-    c.word('a') || c.word('un') || c.word('una');
+    c.optional('a', 'un', 'una');
     for (const [w, v] of Object.entries(FRACTION_WORDS)) if (c.word(w)) return v;
     if (c.word('cuarto')) return 0.25;
   }
@@ -416,7 +420,7 @@ function readWordAmount(c: Cursor, start: number): number | null {
   for (const [w, v] of Object.entries(FRACTION_WORDS)) {
     if (c.word(w)) {
       if (c.word('dozen') || c.word('docena')) return v * 12;
-      c.word('a') || c.word('an') || c.word('of') || c.word('de');
+      c.optional('a', 'an', 'of', 'de');
       return v;
     }
   }
@@ -524,7 +528,7 @@ function readPrefix(folded: string, original: string): PrefixRead | null {
       };
     }
   }
-  c.word('of') || c.word('de');
+  c.optional('of', 'de');
   const unitStart = c.pos;
   const unit = readUnit(c);
   if (unit === null) {
@@ -558,7 +562,7 @@ function finishUnit(
   if (extra !== null) amount += extra;
   const container = readContainer(c);
   const after = c.pos;
-  c.word('of') || c.word('de');
+  c.optional('of', 'de');
   const range =
     high === null ? null : { low: Math.min(amount, high), high: Math.max(amount, high) };
   return {
@@ -758,7 +762,7 @@ function findPortion(
     const d = p.description.toLowerCase();
     if (re && !re.test(d)) continue;
     if (!re && MASS_OR_VOLUME.test(d)) continue;
-    const dWords = d.match(/[a-z]+/g) ?? [];
+    const dWords: string[] = d.match(/[a-z]+/g) ?? [];
     const hits = words.filter((w) => dWords.includes(w)).length;
     if (!re && hits === 0) continue;
     // More matching words first, then the shorter (plainer) description, then table order.
