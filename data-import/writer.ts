@@ -1,0 +1,332 @@
+import type Database from 'better-sqlite3';
+import type { Db } from '../src/db/database.js';
+
+/** Provenance of one release of one table. */
+export interface SourceMeta {
+  format: string;
+  name: string;
+  release: string;
+  licence: string;
+  url: string | null;
+  importedAt: string;
+}
+
+export interface NutrientDefInput {
+  code: string;
+  name: string;
+  unit: string;
+  /** INFOODS-style tag (SR28 Tagname) where known: 'P', 'PROCNT', 'ENERC_KCAL', ... */
+  tag: string | null;
+  sortOrder: number | null;
+}
+
+export interface FoodInput {
+  code: string;
+  name: string;
+  altNames: string[];
+  group: string | null;
+  kind: 'generic' | 'branded';
+  brandOwner?: string | null;
+  gtin?: string | null;
+  ingredients?: string | null;
+  ingredientsLang?: string | null;
+  servingG?: number | null;
+  servingText?: string | null;
+  additiveScan?: string | null;
+  additiveScanVersion?: string | null;
+}
+
+/**
+ * The denormalised per-100 g columns and the nutrient tags that fill them, best first, with
+ * each tag's unit converted to the column's unit. Energy: kcal as given, else a kJ value / 4.184
+ * (thermochemical calorie; FAO 2003 "Food energy: methods of analysis and conversion factors").
+ */
+const CORE_COLUMNS: Array<{ column: string; unit: string; tags: string[] }> = [
+  { column: 'phosphorus_mg', unit: 'mg', tags: ['P'] },
+  { column: 'protein_g', unit: 'g', tags: ['PROCNT'] },
+  {
+    column: 'energy_kcal',
+    unit: 'kcal',
+    tags: ['ENERC_KCAL', 'ENERC_KCAL_ATWATER_SPECIFIC', 'ENERC_KCAL_ATWATER_GENERAL', 'ENERC_KJ'],
+  },
+  { column: 'potassium_mg', unit: 'mg', tags: ['K'] },
+  { column: 'sodium_mg', unit: 'mg', tags: ['NA'] },
+  { column: 'calcium_mg', unit: 'mg', tags: ['CA'] },
+  { column: 'water_g', unit: 'g', tags: ['WATER'] },
+  { column: 'phytate_mg', unit: 'mg', tags: ['PHYTAC'] },
+];
+
+const VALUE_BATCH = 200;
+
+const MASS_IN_G: Record<string, number> = { g: 1, mg: 1e-3, µg: 1e-6, ug: 1e-6, ng: 1e-9 };
+
+/** Factor that turns a value in `from` into `to`, or null when they do not convert. */
+export function unitFactor(from: string, to: string): number | null {
+  const f = from.trim();
+  if (f.toLowerCase() === to.toLowerCase()) return 1;
+  const a = MASS_IN_G[f.toLowerCase()] ?? MASS_IN_G[f];
+  const b = MASS_IN_G[to];
+  if (a !== undefined && b !== undefined) return a / b;
+  if (f.toLowerCase() === 'kj' && to === 'kcal') return 1 / 4.184;
+  return null;
+}
+
+/**
+ * Writes one release of one table inside one transaction (better-sqlite3 prepared statements:
+ * the fast path). Re-importing the same format and release updates foods in place, keeping their
+ * ids (plans and diaries refer to them), replaces their values and portions, and removes foods
+ * the new file no longer has. Nothing is visible to other connections until `commit()`; a
+ * `rollback()` (or a killed process) leaves the database exactly as it was.
+ */
+export class SourceWriter {
+  readonly sourceId: number;
+  readonly replaced: boolean;
+  private readonly insValue: Database.Statement;
+  private readonly insValueBatch: Database.Statement;
+  // Values are written VALUE_BATCH rows per statement (about 1.7x the rate of one row each).
+  private readonly buf: unknown[] = [];
+  private readonly bufRefs: Array<{ file: string; line: number }> = [];
+  /** Called for a value whose food already has that nutrient in this import (row skipped). */
+  onDuplicateValue: (file: string, line: number) => void = () => undefined;
+  private readonly insPortion: Database.Statement;
+  private readonly upsertFood: Database.Statement;
+  private readonly markSeen: Database.Statement;
+  private readonly upsertDef: Database.Statement;
+  private open = true;
+  values = 0;
+  portions = 0;
+  foods = 0;
+
+  private constructor(
+    private readonly sqlite: Database.Database,
+    meta: SourceMeta,
+  ) {
+    const s = sqlite;
+    const prev = s
+      .prepare('select id from food_source where format = ? and release = ?')
+      .get(meta.format, meta.release) as { id: number } | undefined;
+    this.replaced = prev !== undefined;
+    if (prev) {
+      this.sourceId = prev.id;
+      s.prepare(
+        'update food_source set name = ?, licence = ?, url = ?, imported_at = ? where id = ?',
+      ).run(meta.name, meta.licence, meta.url, meta.importedAt, prev.id);
+      const inSource = 'select id from food where source_id = ?';
+      s.prepare(`delete from food_fts where rowid in (${inSource})`).run(prev.id);
+      s.prepare(`delete from nutrient_value where food_id in (${inSource})`).run(prev.id);
+      s.prepare(`delete from portion where food_id in (${inSource})`).run(prev.id);
+    } else {
+      const r = s
+        .prepare(
+          `insert into food_source (format, name, release, licence, url, imported_at)
+           values (?, ?, ?, ?, ?, ?)`,
+        )
+        .run(meta.format, meta.name, meta.release, meta.licence, meta.url, meta.importedAt);
+      this.sourceId = Number(r.lastInsertRowid);
+    }
+    s.exec('create temp table if not exists import_seen (code text primary key) without rowid');
+    s.exec('delete from temp.import_seen');
+    this.markSeen = s.prepare('insert into temp.import_seen (code) values (?)');
+    this.upsertFood = s.prepare(
+      `insert into food (source_id, code, name, alt_names, food_group, kind, brand_owner, gtin,
+         ingredients, ingredients_lang, serving_g, serving_text, additive_scan, additive_scan_version)
+       values (@sourceId, @code, @name, @altNames, @group, @kind, @brandOwner, @gtin,
+         @ingredients, @ingredientsLang, @servingG, @servingText, @additiveScan, @additiveScanVersion)
+       on conflict (source_id, code) do update set name = excluded.name,
+         alt_names = excluded.alt_names, food_group = excluded.food_group, kind = excluded.kind,
+         brand_owner = excluded.brand_owner, gtin = excluded.gtin, ingredients = excluded.ingredients,
+         ingredients_lang = excluded.ingredients_lang, serving_g = excluded.serving_g,
+         serving_text = excluded.serving_text, additive_scan = excluded.additive_scan,
+         additive_scan_version = excluded.additive_scan_version
+       returning id`,
+    );
+    this.upsertDef = s.prepare(
+      `insert into nutrient_def (source_id, code, name, unit, tag, sort_order)
+       values (?, ?, ?, ?, ?, ?)
+       on conflict (source_id, code) do update set name = excluded.name, unit = excluded.unit,
+         tag = excluded.tag, sort_order = excluded.sort_order
+       returning id`,
+    );
+    this.insValue = s.prepare(
+      `insert into nutrient_value (food_id, nutrient_def_id, value_per_100g, derivation_code, source_code)
+       values (?, ?, ?, ?, ?)`,
+    );
+    this.insValueBatch = s.prepare(
+      `insert into nutrient_value (food_id, nutrient_def_id, value_per_100g, derivation_code, source_code)
+       values ${Array.from({ length: VALUE_BATCH }, () => '(?, ?, ?, ?, ?)').join(', ')}`,
+    );
+    this.insPortion = s.prepare(
+      'insert into portion (food_id, seq, amount, description, grams) values (?, ?, ?, ?, ?)',
+    );
+  }
+
+  /** Starts the one transaction of this import (waits up to the busy timeout for a writer). */
+  static begin(db: Db, meta: SourceMeta): SourceWriter {
+    db.sqlite.exec('begin immediate');
+    try {
+      return new SourceWriter(db.sqlite, meta);
+    } catch (err) {
+      db.sqlite.exec('rollback');
+      throw err;
+    }
+  }
+
+  defineNutrient(d: NutrientDefInput): number {
+    const r = this.upsertDef.get(this.sourceId, d.code, d.name, d.unit, d.tag, d.sortOrder) as {
+      id: number;
+    };
+    return r.id;
+  }
+
+  /** Adds a food; returns its id, or null when this import already had the same code. */
+  addFood(f: FoodInput): number | null {
+    try {
+      this.markSeen.run(f.code);
+    } catch (err) {
+      if ((err as { code?: string }).code === 'SQLITE_CONSTRAINT_PRIMARYKEY') return null;
+      throw err;
+    }
+    const r = this.upsertFood.get({
+      sourceId: this.sourceId,
+      code: f.code,
+      name: f.name,
+      altNames: JSON.stringify(f.altNames),
+      group: f.group,
+      kind: f.kind,
+      brandOwner: f.brandOwner ?? null,
+      gtin: f.gtin ?? null,
+      ingredients: f.ingredients ?? null,
+      ingredientsLang: f.ingredientsLang ?? null,
+      servingG: f.servingG ?? null,
+      servingText: f.servingText ?? null,
+      additiveScan: f.additiveScan ?? null,
+      additiveScanVersion: f.additiveScanVersion ?? null,
+    }) as { id: number };
+    this.foods++;
+    return r.id;
+  }
+
+  /** Adds one value per 100 g (buffered); a duplicate is reported to `onDuplicateValue`. */
+  addValue(
+    foodId: number,
+    defId: number,
+    valuePer100g: number,
+    derivationCode: string | null,
+    sourceCode: string | null,
+    file: string,
+    line: number,
+  ): void {
+    this.buf.push(foodId, defId, valuePer100g, derivationCode, sourceCode);
+    this.bufRefs.push({ file, line });
+    if (this.bufRefs.length === VALUE_BATCH) this.flushValues();
+  }
+
+  /** Writes buffered values; a batch that hits a duplicate is redone row by row to name it. */
+  flushValues(): void {
+    const n = this.bufRefs.length;
+    if (n === 0) return;
+    let done = false;
+    if (n === VALUE_BATCH) {
+      try {
+        this.insValueBatch.run(this.buf);
+        this.values += n;
+        done = true;
+      } catch (err) {
+        // A failed statement changes nothing: redo the batch one row at a time below.
+        if ((err as { code?: string }).code !== 'SQLITE_CONSTRAINT_PRIMARYKEY') throw err;
+      }
+    }
+    for (let i = 0; !done && i < n; i++) {
+      const o = i * 5;
+      try {
+        this.insValue.run(this.buf.slice(o, o + 5));
+        this.values++;
+      } catch (err) {
+        if ((err as { code?: string }).code !== 'SQLITE_CONSTRAINT_PRIMARYKEY') throw err;
+        const ref = this.bufRefs[i] as { file: string; line: number };
+        this.onDuplicateValue(ref.file, ref.line);
+      }
+    }
+    this.buf.length = 0;
+    this.bufRefs.length = 0;
+  }
+
+  addPortion(foodId: number, seq: number, amount: number, description: string, grams: number) {
+    this.insPortion.run(foodId, seq, amount, description, grams);
+    this.portions++;
+  }
+
+  /** A prepared statement inside the same transaction, for format-specific updates. */
+  prepare(sqlText: string): Database.Statement {
+    return this.sqlite.prepare(sqlText);
+  }
+
+  /**
+   * Finishes: removes foods the new release no longer has, fills the per-100 g columns from the
+   * stored values, indexes names for search, records counts, and commits.
+   */
+  commit(skipped: number): { foods: number; values: number; portions: number } {
+    this.flushValues();
+    const s = this.sqlite;
+    const id = this.sourceId;
+    if (this.replaced) {
+      s.prepare(
+        `delete from food where source_id = ? and code not in (select code from temp.import_seen)`,
+      ).run(id);
+    }
+    this.fillCoreColumns();
+    s.prepare(
+      `insert into food_fts (rowid, name, alt_names, kind)
+       select id, name, (select group_concat(value, ' | ') from json_each(food.alt_names)), kind
+       from food where source_id = ?`,
+    ).run(id);
+    const count = (sqlText: string) => (s.prepare(sqlText).get(id) as { n: number }).n;
+    const foods = count('select count(*) as n from food where source_id = ?');
+    const values = count(
+      'select count(*) as n from nutrient_value where food_id in (select id from food where source_id = ?)',
+    );
+    const portions = count(
+      'select count(*) as n from portion where food_id in (select id from food where source_id = ?)',
+    );
+    s.prepare(
+      `update food_source set food_count = ?, nutrient_value_count = ?, portion_count = ?,
+         skipped_count = ? where id = ?`,
+    ).run(foods, values, portions, skipped, id);
+    s.exec('delete from temp.import_seen');
+    s.exec('commit');
+    this.open = false;
+    return { foods, values, portions };
+  }
+
+  rollback(): void {
+    if (!this.open) return;
+    this.open = false;
+    if (this.sqlite.inTransaction) this.sqlite.exec('rollback');
+  }
+
+  private fillCoreColumns(): void {
+    const defs = this.sqlite
+      .prepare('select id, unit, tag from nutrient_def where source_id = ? and tag is not null')
+      .all(this.sourceId) as Array<{ id: number; unit: string; tag: string }>;
+    const sets: string[] = [];
+    const params: number[] = [];
+    for (const col of CORE_COLUMNS) {
+      const parts: string[] = [];
+      for (const tag of col.tags) {
+        for (const d of defs.filter((x) => x.tag === tag)) {
+          const factor = unitFactor(d.unit, col.unit);
+          if (factor === null) continue;
+          parts.push(
+            '(select value_per_100g * ? from nutrient_value where food_id = food.id and nutrient_def_id = ?)',
+          );
+          params.push(factor, d.id);
+        }
+      }
+      sets.push(`${col.column} = ${parts.length ? `coalesce(${parts.join(', ')})` : 'null'}`);
+      if (parts.length === 1) sets[sets.length - 1] = `${col.column} = ${parts[0]}`;
+    }
+    this.sqlite
+      .prepare(`update food set ${sets.join(', ')} where source_id = ?`)
+      .run(...params, this.sourceId);
+  }
+}
