@@ -12,6 +12,7 @@ import type { Config } from '../config.js';
 import type { Db } from '../db/database.js';
 import { registerSecurity, type AuthOptions } from '../auth/security.js';
 import { foodRoutes } from '../foods/foods.routes.js';
+import { webRoutes } from '../web/web.routes.js';
 import { registerErrorHandler } from './error-handler.js';
 
 /** Everything the server needs from outside; tests pass a fresh in-memory database. */
@@ -69,5 +70,6 @@ export async function buildApp(deps: AppDeps): Promise<App> {
     time: deps.clock.now().toISOString(),
   }));
   await app.register(foodRoutes, { prefix: '/api', db: deps.db });
+  await app.register(webRoutes);
   return app;
 }

@@ -1,0 +1,25 @@
+/** Every API path the screens call, in one place. */
+export const endpoints = {
+  patients: '/api/patients',
+  patient: (id: string | number) => `/api/patients/${id}`,
+  patientTargets: (id: string | number) => `/api/patients/${id}/targets`,
+  patientPlans: (id: string | number) => `/api/patients/${id}/plans`,
+  plans: '/api/plans',
+  plan: (id: string | number) => `/api/plans/${id}`,
+  planSummary: (id: string | number) => `/api/plans/${id}/summary`,
+  planBinders: (id: string | number) => `/api/plans/${id}/binders`,
+  swaps: (foodId: number, limit = 5) => `/api/foods/${foodId}/swaps?limit=${limit}`,
+  food: (id: number) => `/api/foods/${id}`,
+  handoutHtml: (planId: string | number, lang: string) =>
+    `/plans/${planId}/handout?lang=${encodeURIComponent(lang)}`,
+  handoutPdf: (planId: string | number, lang: string, paper: string) =>
+    `/api/plans/${planId}/handout.pdf?lang=${encodeURIComponent(lang)}&paper=${paper}`,
+  diaryAudits: '/api/diary-audits',
+  diaryAudit: (id: string | number) => `/api/diary-audits/${id}`,
+  diaryAuditPdf: (id: string | number) => `/api/diary-audits/${id}.pdf`,
+  sources: '/api/sources',
+  imports: '/api/imports',
+  importJob: (id: string | number) => `/api/imports/${id}`,
+  importFormats: '/api/imports/formats',
+  setting: (key: string) => `/api/settings/${key}`,
+};

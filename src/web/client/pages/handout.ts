@@ -1,0 +1,59 @@
+import { api } from '../api.js';
+import { initChrome } from '../chrome.js';
+import { byId, errorText, pageParams } from '../dom.js';
+import { endpoints } from '../endpoints.js';
+import type { Patient } from '../patient-types.js';
+
+initChrome();
+const planId = pageParams().id ?? '';
+const langSel = byId<HTMLSelectElement>('handout-lang');
+const paperSel = byId<HTMLSelectElement>('handout-paper');
+const frame = byId<HTMLIFrameElement>('handout-frame');
+const pdf = byId<HTMLAnchorElement>('handout-pdf');
+byId<HTMLAnchorElement>('back-to-plan').href = `/plans/${planId}`;
+
+/**
+ * The print view is fetched and shown in a same-origin frame through `srcdoc` (the server
+ * forbids framing its pages directly), so its relative links and styles resolve against us.
+ */
+async function show(): Promise<void> {
+  const lang = langSel.value;
+  pdf.href = endpoints.handoutPdf(planId, lang, paperSel.value);
+  pdf.setAttribute('download', `plan-${planId}-${lang}-${paperSel.value}.pdf`);
+  const url = new URL(location.origin + endpoints.handoutHtml(planId, lang));
+  url.searchParams.set('paper', paperSel.value);
+  try {
+    const res = await fetch(url, { credentials: 'same-origin', headers: { accept: 'text/html' } });
+    const text = await res.text();
+    if (!res.ok) throw new Error(`${res.status}: ${text.slice(0, 200)}`);
+    frame.srcdoc = text.replace(/<head([^>]*)>/i, `<head$1><base href="${location.origin}/">`);
+    frame.dataset.lang = lang;
+  } catch (err) {
+    frame.srcdoc = `<p style="font-family:sans-serif;color:#9b1c1f">The sheet could not be prepared: ${escapeHtml(errorText(err))}</p>`;
+  }
+}
+
+function escapeHtml(s: string): string {
+  return s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
+}
+
+langSel.addEventListener('change', () => void show());
+paperSel.addEventListener('change', () => void show());
+byId('handout-print').addEventListener('click', () => frame.contentWindow?.print());
+
+async function start(): Promise<void> {
+  const want = new URLSearchParams(location.search).get('lang');
+  if (want) langSel.value = want;
+  else {
+    try {
+      const plan = await api<{ patientId: number }>('GET', endpoints.plan(planId));
+      const patient = await api<Patient>('GET', endpoints.patient(plan.patientId));
+      const base = patient.language.split('-')[0] ?? 'en';
+      if ([...langSel.options].some((o) => o.value === base)) langSel.value = base;
+    } catch {
+      // Language stays English; the sheet itself will say what went wrong.
+    }
+  }
+  await show();
+}
+void start();

@@ -1,0 +1,322 @@
+import { api } from '../api.js';
+import { initChrome } from '../chrome.js';
+import { byId, errorText, fill, h, pageParams, say } from '../dom.js';
+import { endpoints } from '../endpoints.js';
+import { num } from '../format.js';
+import {
+  INGREDIENT_NAMES,
+  stageText,
+  TARGET_NAMES,
+  targetText,
+  type LabResult,
+  type Patient,
+  type Targets,
+} from '../patient-types.js';
+import { newDay, toPlanInput } from '../plan-draft.js';
+
+initChrome();
+const id = pageParams().id ?? '';
+let patient: Patient | undefined;
+
+interface PlanRow {
+  id: number;
+  name: string;
+  days: number | unknown[];
+  version?: number;
+  latestVersion?: number;
+  updatedAt?: string;
+}
+
+function renderHead(p: Patient): void {
+  byId('patient-h').textContent = p.name ? `${p.label} · ${p.name}` : p.label;
+  byId('crumb-patient').textContent = p.label;
+  document.title = `${p.label} · phosledger`;
+}
+
+function renderTargets(t: Targets, p: Patient): void {
+  fill(
+    byId('targets'),
+    h(
+      'p',
+      { class: 'small muted' },
+      `${stageText(p)}${p.diabetes ? ', diabetes' : ''}; weight used for targets ${p.weightKg} kg.`,
+    ),
+    h(
+      'dl',
+      { class: 'kv' },
+      Object.entries(t).flatMap(([key, target]) => [
+        h('dt', {}, TARGET_NAMES[key] ?? key),
+        h(
+          'dd',
+          { 'data-target': key },
+          h('strong', { class: 'num' }, targetText(target)),
+          target.perKg
+            ? h(
+                'span',
+                { class: 'muted small' },
+                ` (${num(target.perKg.min, 2)}–${num(target.perKg.max, 2)} ${target.perKg.unit})`,
+              )
+            : null,
+          target.setBy === 'dietitian'
+            ? h('span', { class: 'flag flag-ratio' }, ' set by the dietitian')
+            : null,
+          h('div', { class: 'source' }, target.source),
+          target.note ? h('div', { class: 'source' }, target.note) : null,
+        ),
+      ]),
+    ),
+  );
+}
+
+function labText(l: LabResult): string {
+  const conv =
+    l.unit === 'mg/dL' && l.mmolPerL !== undefined
+      ? ` (${num(l.mmolPerL, 2)} mmol/L)`
+      : l.unit === 'mmol/L' && l.mgPerDl !== undefined
+        ? ` (${num(l.mgPerDl, 1)} mg/dL)`
+        : '';
+  return `${num(l.value, 2)} ${l.unit}${conv}`;
+}
+
+function renderLabs(p: Patient): void {
+  fill(
+    byId('labs'),
+    p.labs.length === 0
+      ? h('p', { class: 'muted' }, 'No results recorded.')
+      : h(
+          'table',
+          {},
+          h(
+            'thead',
+            {},
+            h('tr', {}, h('th', {}, 'Date'), h('th', {}, 'Result'), h('th', {}, 'Value')),
+          ),
+          h(
+            'tbody',
+            {},
+            p.labs.map((l) =>
+              h(
+                'tr',
+                {},
+                h('td', { class: 'num' }, l.date),
+                h('td', {}, l.analyte === 'phosphate' ? 'Serum phosphate' : 'Serum calcium'),
+                h('td', { class: 'num' }, labText(l)),
+              ),
+            ),
+          ),
+        ),
+    h(
+      'p',
+      { class: 'source' },
+      'Converted with factors from IUPAC standard atomic weights (P 30.974, Ca 40.078 g/mol).',
+    ),
+  );
+}
+
+function renderBinder(p: Patient): void {
+  const b = p.binder;
+  fill(
+    byId('binder'),
+    b
+      ? h(
+          'dl',
+          { class: 'kv' },
+          h('dt', {}, 'Ingredient'),
+          h('dd', {}, INGREDIENT_NAMES[b.ingredient] ?? b.ingredient),
+          h('dt', {}, 'One unit'),
+          h('dd', { class: 'num' }, `${b.unitStrengthMg} mg`),
+          h('dt', {}, 'Prescribed'),
+          h(
+            'dd',
+            { class: 'num' },
+            `${b.units} units ${b.schedule === 'per-meal' ? 'with each meal' : 'per day'}`,
+          ),
+          b.otherMedicines && b.otherMedicines.length
+            ? [h('dt', {}, 'Other medicines'), h('dd', {}, b.otherMedicines.join(', '))]
+            : null,
+        )
+      : h('p', { class: 'muted' }, 'No phosphate binder recorded.'),
+  );
+  byId<HTMLSelectElement>('bf-ingredient').value = b?.ingredient ?? '';
+  byId<HTMLInputElement>('bf-strength').value = b ? String(b.unitStrengthMg) : '';
+  byId<HTMLInputElement>('bf-units').value = b ? String(b.units) : '';
+  byId<HTMLSelectElement>('bf-schedule').value = b?.schedule ?? 'per-day';
+}
+
+function renderPlans(plans: PlanRow[]): void {
+  fill(
+    byId('plans'),
+    plans.length === 0
+      ? h('p', { class: 'muted' }, 'No plans yet.')
+      : h(
+          'table',
+          {},
+          h(
+            'thead',
+            {},
+            h(
+              'tr',
+              {},
+              h('th', {}, 'Plan'),
+              h('th', { class: 'n' }, 'Days'),
+              h('th', { class: 'n' }, 'Version'),
+              h('th', {}, 'Open'),
+            ),
+          ),
+          h(
+            'tbody',
+            {},
+            plans.map((pl) =>
+              h(
+                'tr',
+                {},
+                h('td', {}, h('a', { href: `/plans/${pl.id}` }, pl.name)),
+                h(
+                  'td',
+                  { class: 'n num' },
+                  String(Array.isArray(pl.days) ? pl.days.length : pl.days),
+                ),
+                h('td', { class: 'n num' }, String(pl.latestVersion ?? pl.version ?? '')),
+                h('td', {}, h('a', { href: `/plans/${pl.id}/preview` }, 'Take-home sheet')),
+              ),
+            ),
+          ),
+        ),
+  );
+}
+
+async function loadPlans(): Promise<void> {
+  try {
+    renderPlans(await api<PlanRow[]>('GET', endpoints.patientPlans(id)));
+  } catch (err) {
+    fill(
+      byId('plans'),
+      h('p', { class: 'status error' }, `Could not load plans: ${errorText(err)}`),
+    );
+  }
+}
+
+async function save(
+  update: Record<string, unknown>,
+  statusId: string,
+  done: string,
+): Promise<void> {
+  say(statusId, 'Saving…');
+  try {
+    patient = await api<Patient>('PATCH', endpoints.patient(id), update);
+    renderAll(patient);
+    say(statusId, done, 'ok');
+    void loadTargets();
+  } catch (err) {
+    say(statusId, errorText(err), 'error');
+  }
+}
+
+async function loadTargets(): Promise<void> {
+  if (!patient) return;
+  try {
+    renderTargets(await api<Targets>('GET', endpoints.patientTargets(id)), patient);
+  } catch (err) {
+    fill(
+      byId('targets'),
+      h('p', { class: 'status error' }, `Targets unavailable: ${errorText(err)}`),
+    );
+  }
+}
+
+function renderAll(p: Patient): void {
+  renderHead(p);
+  renderLabs(p);
+  renderBinder(p);
+}
+
+byId<HTMLFormElement>('lab-form').addEventListener('submit', (e) => {
+  e.preventDefault();
+  if (!patient) return;
+  const value = Number(byId<HTMLInputElement>('lab-value').value);
+  const date = byId<HTMLInputElement>('lab-date').value;
+  if (!Number.isFinite(value) || value <= 0 || !date) {
+    say('lab-status', 'Give a value above 0 and the date the sample was taken.', 'error');
+    return;
+  }
+  const entered = {
+    analyte: byId<HTMLSelectElement>('lab-kind').value,
+    value,
+    unit: byId<HTMLSelectElement>('lab-unit').value,
+    date,
+  };
+  const labs = [
+    ...patient.labs.map(({ analyte, value: v, unit, date: d }) => ({
+      analyte,
+      value: v,
+      unit,
+      date: d,
+    })),
+    entered,
+  ];
+  void save({ labs }, 'lab-status', 'Result added.');
+});
+
+byId<HTMLFormElement>('binder-form').addEventListener('submit', (e) => {
+  e.preventDefault();
+  const ingredient = byId<HTMLSelectElement>('bf-ingredient').value;
+  if (!ingredient) {
+    void save({ binder: null }, 'binder-status', 'No binder recorded.');
+    return;
+  }
+  const unitStrengthMg = Number(byId<HTMLInputElement>('bf-strength').value);
+  const units = Number(byId<HTMLInputElement>('bf-units').value);
+  if (!(unitStrengthMg > 0) || !Number.isInteger(units) || units < 1) {
+    say(
+      'binder-status',
+      'Give the strength of one unit in mg and the whole number of units prescribed.',
+      'error',
+    );
+    return;
+  }
+  const schedule = byId<HTMLSelectElement>('bf-schedule').value;
+  void save(
+    {
+      binder: {
+        ingredient,
+        unitStrengthMg,
+        units,
+        schedule,
+        otherMedicines: patient?.binder?.otherMedicines ?? [],
+      },
+    },
+    'binder-status',
+    'Prescription saved as written.',
+  );
+});
+
+byId<HTMLFormElement>('new-plan-form').addEventListener('submit', (e) => {
+  e.preventDefault();
+  const name = byId<HTMLInputElement>('new-plan-name').value.trim();
+  if (!name) {
+    say('plans-status', 'Give the plan a name.', 'error');
+    return;
+  }
+  say('plans-status', 'Creating…');
+  api<{ id: number }>('POST', endpoints.plans, {
+    patientId: Number(id),
+    ...toPlanInput({ name, days: [newDay(0)] }),
+  })
+    .then((pl) => location.assign(`/plans/${pl.id}`))
+    .catch((err: unknown) => say('plans-status', errorText(err), 'error'));
+});
+
+async function start(): Promise<void> {
+  try {
+    patient = await api<Patient>('GET', endpoints.patient(id));
+  } catch (err) {
+    fill(
+      byId('targets'),
+      h('p', { class: 'status error' }, `Could not open the record: ${errorText(err)}`),
+    );
+    return;
+  }
+  renderAll(patient);
+  await Promise.all([loadTargets(), loadPlans()]);
+}
+void start();

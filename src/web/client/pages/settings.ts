@@ -1,0 +1,150 @@
+import { api } from '../api.js';
+import { initChrome } from '../chrome.js';
+import { errorText, fill, h, say } from '../dom.js';
+import { endpoints } from '../endpoints.js';
+
+initChrome();
+
+type Json = string | number | boolean | null | Json[] | { [k: string]: Json };
+
+/** What `GET /api/settings/:key` answers: the value, and where known its default and sources. */
+interface SettingJson {
+  key?: string;
+  value: Json;
+  default?: Json;
+  defaults?: Json;
+  sources?: Record<string, string> | null;
+  updatedAt?: string | null;
+  [k: string]: unknown;
+}
+
+const LABELS: Record<string, string> = {
+  name: 'Clinic name',
+  contact: 'Contact (phone, address)',
+  dietitianName: 'Dietitian’s name',
+  animalOrganic: 'Animal protein phosphorus (organic)',
+  plantOrganic: 'Plant phosphorus, non-phytate',
+  phytate: 'Phytate phosphorus',
+  additive: 'Additive (inorganic) phosphorus',
+  unknown: 'Phosphorus of unknown kind',
+  low: 'Low',
+  typical: 'Typical',
+  high: 'High',
+  binderMinAbsorbableMgPerOccasion: 'No binder under this absorbable P per occasion (mg)',
+  highLoadOccasionMg: 'High-load occasion from (mg absorbable P)',
+  highRatioMgPerG: 'High phosphorus-to-protein ratio from (mg/g)',
+  swapMaxShare: 'Swap must carry at most this share of the original (0–1)',
+  topContributors: 'Top contributors listed (count)',
+};
+
+function labelFor(key: string): string {
+  return LABELS[key] ?? key.replace(/([A-Z])/g, ' $1').replace(/^./, (c) => c.toUpperCase());
+}
+
+let fieldSeq = 0;
+/** Builds inputs that mirror the value's shape; numbers stay numbers, nested objects get a fieldset. */
+function fields(
+  value: Json,
+  path: string[],
+  sources: Record<string, string> | null,
+): HTMLElement[] {
+  if (value && typeof value === 'object' && !Array.isArray(value)) {
+    return Object.entries(value).map(([k, v]) => {
+      const p = [...path, k];
+      if (v && typeof v === 'object' && !Array.isArray(v)) {
+        const src = sources?.[p.join('.')] ?? sources?.[k];
+        return h(
+          'fieldset',
+          { class: 'subform' },
+          h('legend', {}, labelFor(k)),
+          fields(v, p, sources),
+          src ? h('p', { class: 'source' }, src) : null,
+        );
+      }
+      return leaf(v, p, sources?.[p.join('.')] ?? sources?.[k]);
+    });
+  }
+  return [leaf(value, path, undefined)];
+}
+
+function leaf(v: Json, path: string[], source: string | undefined): HTMLElement {
+  const id = `set-${++fieldSeq}`;
+  const key = path[path.length - 1] ?? '';
+  const isNum = typeof v === 'number';
+  const input = h(
+    key === 'contact' ? 'textarea' : 'input',
+    isNum
+      ? {
+          id,
+          type: 'number',
+          step: 'any',
+          value: String(v),
+          'data-path': path.join('.'),
+          'data-type': 'number',
+          inputmode: 'decimal',
+        }
+      : {
+          id,
+          type: 'text',
+          'data-path': path.join('.'),
+          'data-type': typeof v === 'boolean' ? 'boolean' : 'string',
+          rows: '2',
+        },
+  ) as HTMLInputElement;
+  if (!isNum) input.value = v === null ? '' : String(v);
+  return h(
+    'div',
+    { class: 'field' },
+    h('label', { for: id }, labelFor(key)),
+    input,
+    source ? h('span', { class: 'source' }, source) : null,
+  );
+}
+
+function read(form: HTMLFormElement): Json {
+  const out: Record<string, Json> = {};
+  for (const el of form.querySelectorAll<HTMLInputElement>('[data-path]')) {
+    const path = (el.dataset.path ?? '').split('.');
+    let obj = out;
+    for (const p of path.slice(0, -1)) obj = (obj[p] ??= {}) as Record<string, Json>;
+    const last = path[path.length - 1] ?? '';
+    obj[last] =
+      el.dataset.type === 'number'
+        ? el.value.trim() === ''
+          ? NaN
+          : Number(el.value)
+        : el.value.trim();
+  }
+  return out;
+}
+
+async function setUp(form: HTMLFormElement): Promise<void> {
+  const key = form.dataset.key ?? '';
+  const box = form.querySelector('.fields') as HTMLElement;
+  const statusId = `${key}-status`;
+  try {
+    const s = await api<SettingJson>('GET', endpoints.setting(key));
+    fill(box, fields(s.value, [], s.sources ?? null));
+    if (s.updatedAt)
+      box.append(
+        h(
+          'p',
+          { class: 'source' },
+          `Last changed ${s.updatedAt.slice(0, 16).replace('T', ' ')} UTC`,
+        ),
+      );
+  } catch (err) {
+    fill(box, h('p', { class: 'status error' }, `Setting unavailable: ${errorText(err)}`));
+    return;
+  }
+  form.addEventListener('submit', (e) => {
+    e.preventDefault();
+    const value = read(form);
+    say(statusId, 'Saving…');
+    api<SettingJson>('PUT', endpoints.setting(key), { value })
+      .then(() => say(statusId, 'Saved.', 'ok'))
+      .catch((err: unknown) => say(statusId, errorText(err), 'error'));
+  });
+}
+
+for (const form of document.querySelectorAll<HTMLFormElement>('form[data-key]')) void setUp(form);
