@@ -26,6 +26,8 @@ export interface AppDeps {
   auth?: AuthOptions;
   /** Serve HTTPS with this PEM key and certificate (`serve --tls-cert/--tls-key`). */
   https?: { key: Buffer; cert: Buffer };
+  /** Believe X-Forwarded-* from a proxy on loopback (PHOSLEDGER_TRUST_PROXY=1). */
+  trustProxy?: boolean;
 }
 
 declare module 'fastify' {
@@ -39,7 +41,11 @@ export type App = FastifyInstance;
 
 /** Builds the HTTP application without listening. */
 export async function buildApp(deps: AppDeps): Promise<App> {
-  const options = { logger: deps.logger ?? false, bodyLimit: 60 * 1024 * 1024 };
+  const options = {
+    logger: deps.logger ?? false,
+    bodyLimit: 60 * 1024 * 1024,
+    ...(deps.trustProxy ? { trustProxy: ['127.0.0.1', '::1'] } : {}),
+  };
   const app = (
     deps.https ? Fastify({ ...options, https: deps.https }) : Fastify(options)
   ) as FastifyInstance;

@@ -1,6 +1,13 @@
 import type { Clock } from '../clock.js';
 import type { Config } from '../config.js';
 import { migrateToLatest, openDb } from '../db/database.js';
+import {
+  afterListen,
+  exposureWarning,
+  loadTls,
+  trustProxyFromEnv,
+  type TlsFiles,
+} from '../auth/transport.js';
 import { buildApp } from './app.js';
 
 export interface ServeIo {
@@ -12,13 +19,24 @@ export interface ServeIo {
  * Opens and migrates the database, runs first-start steps, and listens. Binds 127.0.0.1 unless
  * told otherwise: the server holds health information.
  */
-export async function serve(config: Config, clock: Clock, io: ServeIo) {
+export async function serve(config: Config, clock: Clock, io: ServeIo, transport: TlsFiles = {}) {
+  const https = loadTls(transport);
+  const warning = exposureWarning(config.host, !!https);
+  if (warning) io.stderr.write(`${warning}\n`);
   const db = openDb(config.dbFile);
   await migrateToLatest(db);
   for (const step of firstStartSteps) await step({ db, config, clock, io });
-  const app = await buildApp({ db, clock, config, logger: safeLogger(config.logLevel) });
+  const app = await buildApp({
+    db,
+    clock,
+    config,
+    logger: safeLogger(config.logLevel),
+    trustProxy: trustProxyFromEnv(process.env),
+    ...(https ? { https } : {}),
+  });
   const address = await app.listen({ host: config.host, port: config.port });
   io.stdout.write(`phosledger listening on ${address}\n`);
+  await afterListen(app, address, io.stdout);
   const close = async () => {
     await app.close();
     await db.close();

@@ -1,3 +1,5 @@
+import { userCommands } from '../../auth/users.command.js';
+import { dbBackup, dbRestore } from '../../backup/backup.command.js';
 import type { Command } from '../command.js';
 import { dbMigrate, sources } from './db.js';
 import { foodsSearch, foodsShow } from './foods.js';
@@ -5,3 +7,4 @@ import { serveCommand } from './serve.js';
 
 /** Every CLI command; each area adds its own here. */
 export const commands: Command[] = [serveCommand, dbMigrate, sources, foodsSearch, foodsShow];
+commands.push(...userCommands, dbBackup, dbRestore);

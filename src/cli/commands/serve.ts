@@ -5,9 +5,15 @@ import { UsageError, type Command } from '../command.js';
 
 export const serveCommand: Command = {
   path: ['serve'],
-  usage: '[--host 127.0.0.1] [--port 8080] [--no-demo]',
+  usage: '[--host 127.0.0.1] [--port 8080] [--no-demo] [--tls-cert FILE --tls-key FILE]',
   summary: 'start the server (imports the default food table on first start)',
-  options: { host: { type: 'string' }, port: { type: 'string' }, 'no-demo': { type: 'boolean' } },
+  options: {
+    host: { type: 'string' },
+    port: { type: 'string' },
+    'no-demo': { type: 'boolean' },
+    'tls-cert': { type: 'string' },
+    'tls-key': { type: 'string' },
+  },
   async run(ctx) {
     const v = ctx.args.values;
     const port = typeof v.port === 'string' ? Number(v.port) : ctx.config.port;
@@ -19,7 +25,16 @@ export const serveCommand: Command = {
       port,
       seedDemo: v['no-demo'] ? false : ctx.config.seedDemo,
     });
-    const server = await serve(config, systemClock, { stdout: ctx.stdout, stderr: ctx.stderr });
+    const tls = {
+      tlsCert: typeof v['tls-cert'] === 'string' ? v['tls-cert'] : undefined,
+      tlsKey: typeof v['tls-key'] === 'string' ? v['tls-key'] : undefined,
+    };
+    const server = await serve(
+      config,
+      systemClock,
+      { stdout: ctx.stdout, stderr: ctx.stderr },
+      tls,
+    );
     await new Promise<void>((resolve) => {
       const stop = () => {
         void server.close().then(resolve);

@@ -1,0 +1,46 @@
+import { existsSync } from 'node:fs';
+import { resolve } from 'node:path';
+import { systemClock } from '../clock.js';
+import type { Command } from '../cli/command.js';
+import { backupDatabase, restoreDatabase } from './backup.js';
+
+function mib(bytes: number): string {
+  return `${(bytes / 1024 / 1024).toFixed(1)} MiB`;
+}
+
+export const dbBackup: Command = {
+  path: ['db', 'backup'],
+  usage: '<file>',
+  summary: 'copy the database to <file> (safe while the server runs)',
+  minPositionals: 1,
+  async run(ctx) {
+    if (ctx.config.dbFile !== ':memory:' && !existsSync(ctx.config.dbFile)) {
+      ctx.stderr.write(`phosledger: no database at ${ctx.config.dbFile}\n`);
+      return 1;
+    }
+    const file = resolve(ctx.args.positionals[0]!);
+    const db = await ctx.db();
+    const r = await backupDatabase(db.sqlite, file);
+    ctx.stdout.write(`backup written: ${file} (${mib(r.bytes)}, integrity ok)\n`);
+  },
+};
+
+export const dbRestore: Command = {
+  path: ['db', 'restore'],
+  usage: '<file>',
+  summary: 'replace the database with a checked backup (stop the server first)',
+  minPositionals: 1,
+  async run(ctx) {
+    const file = resolve(ctx.args.positionals[0]!);
+    const r = await restoreDatabase(file, ctx.config.dbFile, systemClock);
+    ctx.stdout.write(
+      [
+        `restored ${file} into ${ctx.config.dbFile} (${mib(r.bytes)}, integrity ok)`,
+        r.safetyCopy ? `the database as it was is kept in ${r.safetyCopy}` : '',
+        r.migrated.length > 0 ? `upgraded with ${r.migrated.join(', ')}` : '',
+      ]
+        .filter(Boolean)
+        .join('\n') + '\n',
+    );
+  },
+};
