@@ -1,0 +1,288 @@
+import { IntlMessageFormat } from 'intl-messageformat';
+import { formatNumber } from '../i18n/format.js';
+import type { PaperSize } from './handout.js';
+import { drawCautionBox } from './pdf/caution.js';
+import { chartHeight, drawAbsorbableChart } from './pdf/chart.js';
+import { createPdfDocument, finishPdf } from './pdf/document.js';
+import { PdfFlow, type FlowSurface } from './pdf/flow.js';
+import { drawTable, type TableColumn } from './pdf/table.js';
+import type { TextStyle } from './pdf/text.js';
+import { THEME, TYPE } from './pdf/theme.js';
+import type { HandoutViewModel, OccasionVm } from './view-model.js';
+
+export interface RenderedPdf {
+  bytes: Buffer;
+  pageCount: number;
+  /** Code points no embedded font could draw (must be empty for a handout to be given out). */
+  missingCodePoints: number[];
+  /** Text runs whose shaping produced a .notdef glyph (must be 0). */
+  notdefRuns: number;
+}
+
+const MARGIN = 36;
+const BAND = 64;
+
+const style = (
+  sizePt: number,
+  weight: 'regular' | 'bold' = 'regular',
+  color: string = THEME.ink,
+): TextStyle => ({
+  sizePt,
+  weight,
+  color,
+});
+
+function drawBand(flow: PdfFlow, vm: HandoutViewModel): void {
+  const doc = flow.doc;
+  doc.rect(0, 0, doc.page.width, BAND).fill(THEME.brand);
+  const half = flow.width * 0.58;
+  const title =
+    flow.wrap(vm.strings.title, style(TYPE.title, 'bold', THEME.onBrand), half)[0] ?? '';
+  flow.linesAt([title], style(TYPE.title, 'bold', THEME.onBrand), 0, 14, half);
+  const right = [vm.header.patientLabel, vm.header.dateText];
+  const rw = flow.width - half - 10;
+  flow.linesAt(
+    right.map((l) => flow.wrap(l, style(TYPE.small, 'bold', THEME.onBrand), rw)[0] ?? ''),
+    style(TYPE.small, 'bold', THEME.onBrand),
+    half + 10,
+    12,
+    rw,
+    'end',
+  );
+}
+
+function drawInfo(flow: PdfFlow, vm: HandoutViewModel): void {
+  const label = style(TYPE.body, 'bold', THEME.muted);
+  const value = style(TYPE.body);
+  const rows: [string, string][] = [
+    [vm.strings.forLabel, vm.header.patientLabel],
+    [vm.strings.dateLabel, vm.header.dateText],
+    [vm.strings.dietitianLabel, vm.header.dietitianName],
+    [vm.strings.clinicLabel, vm.header.clinicName],
+    [vm.strings.contactLabel, vm.header.clinicContact],
+  ];
+  const columns: TableColumn[] = [
+    { share: 0.3, style: label },
+    { share: 0.7, style: value },
+  ];
+  const top = flow.y;
+  const h =
+    rows.reduce(
+      (s, [, v]) =>
+        s +
+        Math.max(1, flow.wrap(v, value, flow.width * 0.7 - 24).length) *
+          flow.lineHeight(TYPE.body) +
+        8,
+      0,
+    ) + 12;
+  flow.doc.roundedRect(flow.left, top, flow.width, h, 8).fill(THEME.brandPale);
+  flow.y += 6;
+  drawTable(flow, columns, rows, { x: 8, width: flow.width - 16, padPt: 4 });
+  flow.y = top + h + 12;
+  flow.paragraph(vm.strings.subtitle, style(TYPE.subheading, 'bold', THEME.brand), { gapAfter: 4 });
+  flow.paragraph(vm.strings.howToRead, style(TYPE.body), { gapAfter: 12 });
+}
+
+function heading(flow: PdfFlow, text: string): void {
+  const s = style(TYPE.heading, 'bold', THEME.brand);
+  flow.ensure(flow.lineHeight(s.sizePt) * 2);
+  flow.paragraph(text, s, { gapAfter: 4 });
+}
+
+function occasionHeight(
+  flow: PdfFlow,
+  occ: OccasionVm,
+  itemCols: TableColumn[],
+  inner: number,
+): number {
+  let h = 8 + titleBlockHeight(flow, occ, inner);
+  for (const item of occ.items) {
+    const a = flow.wrap(item.label, (itemCols[0] as TableColumn).style, inner * 0.62 - 6).length;
+    const b = flow.wrap(item.portion, (itemCols[1] as TableColumn).style, inner * 0.38 - 6).length;
+    h += Math.max(a, b) * flow.lineHeight(TYPE.body) + 6;
+  }
+  if (occ.binder) h += 5 + flow.measure(binderText(occ), style(TYPE.body, 'bold'), inner - 26);
+  return h + 6;
+}
+
+function occasionTitle(occ: OccasionVm): string {
+  return `${occ.name}${occ.timeText ? `  ${occ.timeText}` : ''}`;
+}
+
+/** Whether the title and the absorbed line share one row (they do when both fit). */
+function titleShares(flow: PdfFlow, occ: OccasionVm, inner: number): boolean {
+  const t = flow.engine.widthOf(occasionTitle(occ), style(TYPE.subheading, 'bold'));
+  const a = flow.engine.widthOf(occ.absorbedLine, style(TYPE.small));
+  return t + a + 16 <= inner;
+}
+
+function titleBlockHeight(flow: PdfFlow, occ: OccasionVm, inner: number): number {
+  const t = flow.measure(occasionTitle(occ), style(TYPE.subheading, 'bold'), inner);
+  return titleShares(flow, occ, inner)
+    ? t
+    : t + flow.measure(occ.absorbedLine, style(TYPE.small), inner);
+}
+
+function binderText(occ: OccasionVm): string {
+  return occ.binder
+    ? [occ.binder.dose + '.', ...occ.binder.timing].join(' ').replace('..', '.')
+    : '';
+}
+
+function drawPill(flow: PdfFlow, logicalX: number, y: number): void {
+  const doc = flow.doc;
+  const x = flow.phys(logicalX, 18);
+  doc.save();
+  doc.lineWidth(1.2).roundedRect(x, y, 18, 9, 4.5).fillAndStroke(THEME.onBrand, THEME.brand);
+  doc.rect(x + 9, y, 9, 9).fill(THEME.brand);
+  doc.lineWidth(1.2).roundedRect(x, y, 18, 9, 4.5).stroke(THEME.brand);
+  doc.restore();
+}
+
+function drawOccasion(flow: PdfFlow, occ: OccasionVm): void {
+  const stripe = 5;
+  const pad = 10;
+  const inner = flow.width - stripe - 2 * pad;
+  const itemCols: TableColumn[] = [
+    { share: 0.62, style: style(TYPE.body) },
+    { share: 0.38, style: style(TYPE.body, 'bold'), align: 'end' },
+  ];
+  const h = occasionHeight(flow, occ, itemCols, inner);
+  flow.ensure(h + 6);
+  const top = flow.y;
+  const doc = flow.doc;
+  doc.roundedRect(flow.left, top, flow.width, h, 6).fill(THEME.brandPale);
+  doc.rect(flow.phys(0, stripe), top, stripe, h).fill(THEME.brand);
+  flow.y = top + 5;
+  const x = stripe + pad;
+  const absorbed = style(TYPE.small, 'regular', THEME.muted);
+  if (titleShares(flow, occ, inner)) {
+    const y = flow.y;
+    const lhT = flow.lineHeight(TYPE.subheading);
+    flow.linesAt(
+      [occ.absorbedLine],
+      absorbed,
+      x,
+      y + lhT - flow.lineHeight(TYPE.small) - 1,
+      inner,
+      'end',
+    );
+    flow.paragraph(occasionTitle(occ), style(TYPE.subheading, 'bold'), { x, width: inner });
+  } else {
+    flow.paragraph(occasionTitle(occ), style(TYPE.subheading, 'bold'), { x, width: inner });
+    flow.paragraph(occ.absorbedLine, absorbed, { x, width: inner });
+  }
+  drawTable(
+    flow,
+    itemCols,
+    occ.items.map((i) => [i.label, i.portion]),
+    { x, width: inner, padPt: 3 },
+  );
+  if (occ.binder) {
+    flow.y += 5;
+    const s = style(TYPE.body, occ.binder.units > 0 ? 'bold' : 'regular');
+    if (occ.binder.units > 0) drawPill(flow, x, flow.y + 5);
+    flow.paragraph(binderText(occ), s, { x: x + 26, width: inner - 26 });
+  }
+  flow.y = top + h + 6;
+}
+
+/**
+ * Draws the handout: a cover page (who, when, binder, cautions), one page per day (meals,
+ * binder per meal, chart) and a "foods to watch" page. Fonts are shared parsed objects, so a
+ * document costs no font parsing after the first in the process.
+ */
+export async function renderHandoutPdf(
+  vm: HandoutViewModel,
+  paper: PaperSize,
+): Promise<RenderedPdf> {
+  const doc = createPdfDocument(paper, {
+    title: `${vm.strings.title} - ${vm.header.patientLabel}`,
+    language: vm.language,
+    createdAt: new Date(`${vm.header.date}T00:00:00Z`),
+  });
+  const flow = new PdfFlow(doc as unknown as FlowSurface, vm.script, vm.direction, {
+    marginPt: MARGIN,
+    headerPt: BAND - MARGIN + 16,
+    footerPt: 40,
+    onNewPage: (f) => drawBand(f, vm),
+  });
+  flow.newPage();
+  drawInfo(flow, vm);
+
+  heading(flow, vm.binder.heading);
+  for (const line of vm.binder.lines) flow.paragraph(line, style(TYPE.body), { gapAfter: 2 });
+  flow.y += 10;
+  drawCautionBox(flow, vm.cautions.heading, vm.cautions.lines);
+
+  for (const day of vm.days) {
+    flow.newPage();
+    heading(flow, day.label ? `${day.heading}: ${day.label}` : day.heading);
+    flow.paragraph(day.totalLine, style(TYPE.body), { gapAfter: 10 });
+    for (const occ of day.occasions) drawOccasion(flow, occ);
+    flow.y += 4;
+    flow.ensure(chartHeight(flow, day.chart));
+    drawAbsorbableChart(flow, day.chart);
+  }
+
+  flow.newPage();
+  const w = vm.foodsToWatch;
+  heading(flow, w.heading);
+  flow.paragraph(w.intro, style(TYPE.body), { gapAfter: 8 });
+  if (w.codes.length > 0) {
+    const rows = w.codes.map((c) => [c.code, c.names.join(', ')]);
+    const withNames = w.codes.some((c) => c.names.length > 0);
+    if (withNames) {
+      drawTable(
+        flow,
+        [
+          { share: 0.2, style: style(TYPE.body, 'bold') },
+          { share: 0.8, style: style(TYPE.body) },
+        ],
+        rows,
+        { zebra: true },
+      );
+    } else {
+      flow.paragraph(w.codes.map((c) => c.code).join('   '), style(TYPE.body, 'bold'), {
+        gapAfter: 4,
+      });
+    }
+    flow.y += 8;
+  }
+  flow.paragraph(w.plainWords, style(TYPE.body, 'bold'), { gapAfter: 8 });
+  flow.paragraph(w.foods, style(TYPE.body), { gapAfter: 8 });
+  if (w.inPlan) flow.paragraph(w.inPlan, style(TYPE.body), { gapAfter: 8 });
+
+  // Footers, now that the page count is known.
+  const range = doc.bufferedPageRange();
+  const pages = range.count;
+  const pageLabel = new IntlMessageFormat(vm.pageLabel.pattern, vm.pageLabel.locale);
+  for (let i = 0; i < pages; i++) {
+    doc.switchToPage(range.start + i);
+    const y = doc.page.height - MARGIN - 34;
+    doc
+      .lineWidth(0.75)
+      .strokeColor(THEME.rule)
+      .moveTo(MARGIN, y)
+      .lineTo(doc.page.width - MARGIN, y)
+      .stroke();
+    const label = String(
+      pageLabel.format({
+        page: formatNumber(vm.locale, i + 1),
+        pages: formatNumber(vm.locale, pages),
+      }),
+    );
+    const s = style(TYPE.small, 'regular', THEME.muted);
+    flow.linesAt([label], s, 0, y + 2, flow.width, 'end');
+    const notice = vm.review.notice ? `phosledger \u00b7 ${vm.review.notice}` : 'phosledger';
+    flow.linesAt([flow.wrap(notice, s, flow.width * 0.7)[0] ?? ''], s, 0, y + 2, flow.width * 0.7);
+  }
+  doc.flushPages();
+  const bytes = await finishPdf(doc);
+  return {
+    bytes,
+    pageCount: pages,
+    missingCodePoints: [...flow.engine.missing].sort((a, b) => a - b),
+    notdefRuns: flow.engine.notdefRuns,
+  };
+}

@@ -1,0 +1,101 @@
+import { readFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import * as fontkit from 'fontkit';
+
+const require = createRequire(import.meta.url);
+
+/** The font families the PDFs use; every one is a full Noto TTF (SIL Open Font License). */
+export const FONT_FAMILIES = ['sans', 'sc', 'arabic', 'devanagari'] as const;
+export type FontFamily = (typeof FONT_FAMILIES)[number];
+export type FontWeight = 'regular' | 'bold';
+
+const FILES: Record<FontFamily, Record<FontWeight, string>> = {
+  sans: {
+    regular: '@expo-google-fonts/noto-sans/400Regular/NotoSans_400Regular.ttf',
+    bold: '@expo-google-fonts/noto-sans/700Bold/NotoSans_700Bold.ttf',
+  },
+  sc: {
+    regular: '@expo-google-fonts/noto-sans-sc/400Regular/NotoSansSC_400Regular.ttf',
+    bold: '@expo-google-fonts/noto-sans-sc/700Bold/NotoSansSC_700Bold.ttf',
+  },
+  arabic: {
+    regular: '@expo-google-fonts/noto-sans-arabic/400Regular/NotoSansArabic_400Regular.ttf',
+    bold: '@expo-google-fonts/noto-sans-arabic/700Bold/NotoSansArabic_700Bold.ttf',
+  },
+  devanagari: {
+    regular: '@expo-google-fonts/noto-sans-devanagari/400Regular/NotoSansDevanagari_400Regular.ttf',
+    bold: '@expo-google-fonts/noto-sans-devanagari/700Bold/NotoSansDevanagari_700Bold.ttf',
+  },
+};
+
+/** The part of a fontkit font the layout code needs (PDFKit accepts the object itself). */
+export interface LoadedFont {
+  readonly key: string;
+  readonly family: FontFamily;
+  readonly weight: FontWeight;
+  /** The parsed font, handed to PDFKit's registerFont so no document parses it again. */
+  readonly font: fontkit.Font;
+  hasGlyph(codePoint: number): boolean;
+}
+
+const loaded = new Map<string, LoadedFont>();
+
+/** The parsed font for a family and weight: read and parsed once per process, then reused. */
+export function getFont(family: FontFamily, weight: FontWeight): LoadedFont {
+  const key = `${family}-${weight}`;
+  const cached = loaded.get(key);
+  if (cached) return cached;
+  const buffer = readFileSync(require.resolve(FILES[family][weight]));
+  const font = fontkit.create(buffer) as fontkit.Font;
+  const coverage = new Map<number, boolean>();
+  const entry: LoadedFont = {
+    key,
+    family,
+    weight,
+    font,
+    hasGlyph(cp) {
+      let has = coverage.get(cp);
+      if (has === undefined) {
+        has = font.hasGlyphForCodePoint(cp);
+        coverage.set(cp, has);
+      }
+      return has;
+    },
+  };
+  loaded.set(key, entry);
+  return entry;
+}
+
+/** Parses every font now (at start-up or in a benchmark warm-up) instead of on first use. */
+export function preloadFonts(): void {
+  for (const family of FONT_FAMILIES) {
+    for (const weight of ['regular', 'bold'] as const) getFont(family, weight);
+  }
+}
+
+/** Which family carries a script best; the first family of the chain is tried first. */
+export type ScriptFamily = 'latin' | 'cyrillic' | 'han' | 'arabic' | 'devanagari';
+
+export function fallbackChain(primary: ScriptFamily): FontFamily[] {
+  switch (primary) {
+    case 'han':
+      return ['sc', 'sans', 'arabic', 'devanagari'];
+    case 'arabic':
+      return ['arabic', 'sans', 'sc', 'devanagari'];
+    case 'devanagari':
+      return ['devanagari', 'sans', 'sc', 'arabic'];
+    default:
+      return ['sans', 'sc', 'arabic', 'devanagari'];
+  }
+}
+
+/**
+ * The family that draws one code point: the first of the chain that has a glyph for it, or
+ * null when no embedded font has one (the caller reports it instead of drawing a .notdef box).
+ */
+export function familyFor(cp: number, chain: readonly FontFamily[], weight: FontWeight) {
+  for (const family of chain) {
+    if (getFont(family, weight).hasGlyph(cp)) return family;
+  }
+  return null;
+}

@@ -1,0 +1,415 @@
+import { formatDate, formatList, formatNumber, formatTime } from '../i18n/format.js';
+import type { MessageBundle, MessageValues } from '../i18n/messages.js';
+import type { ReviewStatus } from '../i18n/catalogue.js';
+import type { ScriptFamily } from './pdf/fonts.js';
+import type {
+  AdditiveLabelEntry,
+  HandoutClinic,
+  HandoutDay,
+  HandoutItem,
+  HandoutPatient,
+  HandoutSummary,
+} from './handout.js';
+
+export interface MgRange {
+  low: number;
+  typical: number;
+  high: number;
+}
+
+export interface ChartRowVm {
+  label: string;
+  /** Absorbable phosphorus of the occasion, mg (typical, low, high), straight from the summary. */
+  absorbableMg: MgRange;
+  valueText: string;
+}
+
+export interface ChartVm {
+  title: string;
+  rows: ChartRowVm[];
+  whole: {
+    label: string;
+    absorbableMg: MgRange;
+    totalMg: number;
+    absorbableText: string;
+    totalText: string;
+  };
+  /** The day's phosphorus target in mg (total phosphorus), when the plan has one. */
+  target: { mg: number; text: string } | null;
+  legend: { absorbed: string; inFood: string; range: string };
+}
+
+export interface ItemVm {
+  label: string;
+  portion: string;
+  grams: number;
+}
+
+export interface OccasionVm {
+  name: string;
+  timeText: string | null;
+  absorbableMg: MgRange;
+  absorbedLine: string;
+  items: ItemVm[];
+  binder: { units: number; dose: string; timing: string[] } | null;
+}
+
+export interface DayVm {
+  number: number;
+  heading: string;
+  /** The dietitian's own name for the day when it is more than "Day n". */
+  label: string | null;
+  totalMg: number;
+  absorbableMg: MgRange;
+  totalLine: string;
+  occasions: OccasionVm[];
+  chart: ChartVm;
+}
+
+/** Everything a handout shows, already in the patient's language; both renderers read only this. */
+export interface HandoutViewModel {
+  language: string;
+  languageName: string;
+  locale: string;
+  direction: 'ltr' | 'rtl';
+  script: ScriptFamily;
+  review: { status: ReviewStatus; notice: string | null };
+  strings: {
+    title: string;
+    subtitle: string;
+    howToRead: string;
+    forLabel: string;
+    dateLabel: string;
+    dietitianLabel: string;
+    clinicLabel: string;
+    contactLabel: string;
+  };
+  /** "Page {page} of {pages}" in the language; renderers fill it in once pages are known. */
+  pageLabel: { pattern: string; locale: string };
+  header: {
+    clinicName: string;
+    clinicContact: string;
+    patientLabel: string;
+    dietitianName: string;
+    date: string;
+    dateText: string;
+  };
+  days: DayVm[];
+  binder: { heading: string; name: string | null; lines: string[] };
+  foodsToWatch: {
+    heading: string;
+    intro: string;
+    codes: { code: string; names: string[] }[];
+    plainWords: string;
+    foods: string;
+    inPlan: string | null;
+  };
+  cautions: { heading: string; lines: string[] };
+  /** Keys shown in English because the language lacks them (only in 'mark' mode). */
+  fallbackKeys: string[];
+}
+
+export interface HandoutOptions {
+  /** Phosphate additives for "foods to watch" (the additive catalogue's entries). */
+  additives?: readonly AdditiveLabelEntry[];
+  /**
+   * 'refuse' (handouts): a language missing any string gives an error listing the keys.
+   * 'mark' (the clinic's preview): English stands in, prefixed with a visible [EN] marker.
+   */
+  fallback?: 'refuse' | 'mark';
+}
+
+export type HandoutBuild =
+  | { ok: true; value: HandoutViewModel }
+  | { ok: false; code: 'LANGUAGE_INCOMPLETE'; language: string; missingKeys: string[] };
+
+/** Marker put in front of English text standing in for a missing string (clinic preview only). */
+export const FALLBACK_MARK = '[EN] ';
+
+const OCCASION_KEYS: Record<string, string> = {
+  breakfast: 'occasion.breakfast',
+  lunch: 'occasion.lunch',
+  dinner: 'occasion.dinner',
+  supper: 'occasion.dinner',
+  snack: 'occasion.snack',
+  'morning snack': 'occasion.morningSnack',
+  'afternoon snack': 'occasion.afternoonSnack',
+  'evening snack': 'occasion.eveningSnack',
+  'bedtime snack': 'occasion.eveningSnack',
+};
+
+const MEASURES: [RegExp, string][] = [
+  [/^cups?\b/i, 'measure.cup'],
+  [/^(tbsp|tablespoons?)\b/i, 'measure.tablespoon'],
+  [/^(tsp|teaspoons?)\b/i, 'measure.teaspoon'],
+  [/^slices?\b/i, 'measure.slice'],
+  [/^(pieces?|pc|pcs)\b/i, 'measure.piece'],
+  [/^small\b/i, 'measure.small'],
+  [/^medium\b/i, 'measure.medium'],
+  [/^large\b/i, 'measure.large'],
+];
+
+/**
+ * How each binder is taken beyond "with the first bites of the meal". Only forms that come in a
+ * single way get a fixed instruction: ferric citrate tablets are swallowed whole and
+ * sucroferric oxyhydroxide tablets are chewed (US prescribing information, from memory); the
+ * others come as chewables, tablets or powders, so the patient is sent to the label.
+ */
+const BINDER_HOW: Record<string, string> = {
+  'ferric-citrate': 'binder.timing.swallow',
+  'sucroferric-oxyhydroxide': 'binder.timing.chew',
+};
+
+/** Reads the day's phosphorus target (mg/day) from the summary's targets, whatever its shape. */
+export function phosphorusTargetMg(targets: unknown): number | null {
+  if (!targets || typeof targets !== 'object') return null;
+  const t =
+    (targets as Record<string, unknown>).phosphorusMg ??
+    (targets as Record<string, unknown>).phosphorus;
+  if (typeof t === 'number' && Number.isFinite(t)) return t;
+  if (t && typeof t === 'object') {
+    const o = t as Record<string, unknown>;
+    for (const k of ['max', 'upper', 'value', 'target', 'high']) {
+      const v = o[k];
+      if (typeof v === 'number' && Number.isFinite(v)) return v;
+    }
+  }
+  return null;
+}
+
+/** Whether a binder dose row belongs to the day at index dayIndex (0-based). */
+function sameDay(rowDay: number | string, dayIndex: number, day: HandoutDay, zeroBased: boolean) {
+  if (typeof rowDay === 'string') return rowDay === day.label || rowDay === String(dayIndex + 1);
+  return zeroBased ? rowDay === dayIndex : rowDay === dayIndex + 1;
+}
+
+/**
+ * Builds the handout's view-model from a plan summary, the patient, the clinic settings, the
+ * language's messages and the date the handout carries (YYYY-MM-DD). Pure: no clock, no I/O.
+ * All amounts stay in mg and g as the summary gives them; texts round to whole mg.
+ */
+export function buildHandoutViewModel(
+  summary: HandoutSummary,
+  patient: HandoutPatient,
+  clinic: HandoutClinic,
+  language: string,
+  messages: MessageBundle,
+  dateIso: string,
+  options: HandoutOptions = {},
+): HandoutBuild {
+  if (messages.language !== language) {
+    throw new Error(`messages are ${messages.language}, handout asked for ${language}`);
+  }
+  const mode = options.fallback ?? 'refuse';
+  const missing = messages.missingKeys();
+  if (mode === 'refuse' && missing.length > 0) {
+    return { ok: false, code: 'LANGUAGE_INCOMPLETE', language, missingKeys: missing };
+  }
+  const meta = messages.catalogue.meta;
+  const locale = meta.locale;
+  const fallbackKeys = new Set<string>();
+  const t = (key: string, values: MessageValues = {}): string => {
+    const r = messages.format(key, values);
+    if (!r.fallback) return r.text;
+    fallbackKeys.add(key);
+    return FALLBACK_MARK + r.text;
+  };
+  const mg = (n: number) => formatNumber(locale, Math.round(n));
+  const grams = (n: number) => formatNumber(locale, n, n < 10 ? 1 : 0);
+
+  const ingredient = summary.binders?.prescription?.ingredient ?? null;
+  const binderName = ingredient ? t(`binder.name.${ingredient}`) : null;
+  const doses = summary.binders?.perOccasion ?? [];
+  const zeroBased = doses.some((d) => d.day === 0);
+
+  const occasionName = (name: string) => {
+    const key = OCCASION_KEYS[name.trim().toLowerCase()];
+    return key ? t(key) : name;
+  };
+
+  const portion = (item: HandoutItem): string => {
+    const g = grams(item.grams);
+    const m = item.measure;
+    if (m && m.amount > 0) {
+      const hit = MEASURES.find(([re]) => re.test(m.description.trim()));
+      if (hit) return t('portion.withGrams', { measure: t(hit[1], { count: m.amount }), grams: g });
+    }
+    return t('portion.grams', { grams: g });
+  };
+
+  const days: DayVm[] = summary.days.map((day, dayIndex) => {
+    const occasions: OccasionVm[] = day.occasions.map((occ) => {
+      const dose = doses.find(
+        (d) => sameDay(d.day, dayIndex, day, zeroBased) && d.occasion === occ.name,
+      );
+      let binder: OccasionVm['binder'] = null;
+      if (ingredient && binderName) {
+        const units = dose?.units ?? 0;
+        binder =
+          units > 0
+            ? {
+                units,
+                dose: t('binder.dose', { count: units, binder: binderName }),
+                timing: [
+                  t('binder.timing.withMeal'),
+                  t(BINDER_HOW[ingredient] ?? 'binder.timing.asLabel'),
+                ],
+              }
+            : { units: 0, dose: t('binder.none'), timing: [] };
+      }
+      const a = occ.nutrients.absorbablePhosphorusMg;
+      return {
+        name: occasionName(occ.name),
+        timeText: occ.time ? t('occasion.at', { time: formatTime(locale, occ.time) }) : null,
+        absorbableMg: { low: a.low, typical: a.typical, high: a.high },
+        absorbedLine: t('occasion.absorbed', { typical: mg(a.typical) }),
+        items: occ.items.map((item) => ({
+          label: (item.patientLabel ?? '').trim() || item.label,
+          portion: portion(item),
+          grams: item.grams,
+        })),
+        binder,
+      };
+    });
+    const a = day.nutrients.absorbablePhosphorusMg;
+    const targetMg = phosphorusTargetMg(day.targets);
+    const heading = t('day.heading', { day: formatNumber(locale, dayIndex + 1) });
+    return {
+      number: dayIndex + 1,
+      heading,
+      label: /^\s*day\s*\d+\s*$/i.test(day.label) || !day.label.trim() ? null : day.label,
+      totalMg: day.nutrients.phosphorusMg,
+      absorbableMg: { low: a.low, typical: a.typical, high: a.high },
+      totalLine: t('day.total', {
+        typical: mg(a.typical),
+        low: mg(a.low),
+        high: mg(a.high),
+        total: mg(day.nutrients.phosphorusMg),
+      }),
+      occasions,
+      chart: {
+        title: t('chart.title'),
+        rows: occasions.map((o) => ({
+          label: o.name,
+          absorbableMg: o.absorbableMg,
+          valueText: mg(o.absorbableMg.typical),
+        })),
+        whole: {
+          label: t('chart.wholeDay'),
+          absorbableMg: { low: a.low, typical: a.typical, high: a.high },
+          totalMg: day.nutrients.phosphorusMg,
+          absorbableText: mg(a.typical),
+          totalText: mg(day.nutrients.phosphorusMg),
+        },
+        target:
+          targetMg === null
+            ? null
+            : { mg: targetMg, text: t('chart.target', { target: mg(targetMg) }) },
+        legend: {
+          absorbed: t('chart.absorbed'),
+          inFood: t('chart.inFood'),
+          range: t('chart.range'),
+        },
+      },
+    };
+  });
+
+  const binderLines: string[] = [];
+  const prescription = summary.binders?.prescription ?? null;
+  if (prescription && binderName) {
+    const perDay =
+      prescription.schedule === 'per-meal'
+        ? doses
+            .filter((d) => sameDay(d.day, 0, summary.days[0] as HandoutDay, zeroBased))
+            .reduce((s, d) => s + d.units, 0)
+        : prescription.units;
+    binderLines.push(t('binder.perDay', { count: perDay }));
+    binderLines.push(t('binder.timing.withMeal'));
+    binderLines.push(t(BINDER_HOW[prescription.ingredient] ?? 'binder.timing.asLabel'));
+  } else {
+    binderLines.push(t('binder.noPrescription'));
+  }
+
+  const labelLanguage = meta.additiveLabelLanguage;
+  const codes = (options.additives ?? [])
+    .filter((a) => a.counted)
+    .map((a) => ({
+      code: a.eNumber.replace(/^E\s*/i, 'E\u00a0'),
+      names: labelLanguage ? [...(a.labelNames[labelLanguage] ?? [])].slice(0, 2) : [],
+    }))
+    .sort((x, y) => x.code.localeCompare(y.code, 'en', { numeric: true }));
+  const flagged = [
+    ...new Set(
+      summary.days.flatMap((d) =>
+        d.occasions.flatMap((o) =>
+          o.items
+            .filter((i) => i.additiveLikely)
+            .map((i) => (i.patientLabel ?? '').trim() || i.label),
+        ),
+      ),
+    ),
+  ];
+
+  const value: HandoutViewModel = {
+    language,
+    languageName: meta.name,
+    locale,
+    direction: meta.direction,
+    script: meta.script,
+    review: {
+      status: meta.review.status,
+      notice:
+        language === 'en'
+          ? null
+          : t(meta.review.status === 'reviewed' ? 'footer.reviewed' : 'footer.drafted'),
+    },
+    strings: {
+      title: t('handout.title'),
+      subtitle: t('handout.subtitle'),
+      howToRead: t('handout.howToRead'),
+      forLabel: t('handout.for'),
+      dateLabel: t('handout.date'),
+      dietitianLabel: t('handout.dietitian'),
+      clinicLabel: t('handout.clinic'),
+      contactLabel: t('handout.contact'),
+    },
+    pageLabel: {
+      pattern:
+        messages.catalogue.patterns.get('footer.page') ??
+        (messages.english.patterns.get('footer.page') as string),
+      locale,
+    },
+    header: {
+      clinicName: clinic.name,
+      clinicContact: clinic.contact,
+      patientLabel: patient.label,
+      dietitianName: clinic.dietitianName,
+      date: dateIso,
+      dateText: formatDate(locale, dateIso),
+    },
+    days,
+    binder: { heading: t('binder.heading'), name: binderName, lines: binderLines },
+    foodsToWatch: {
+      heading: t('watch.heading'),
+      intro: t('watch.intro'),
+      codes,
+      plainWords: t('watch.plainWords'),
+      foods: t('watch.foods'),
+      inPlan: flagged.length ? t('watch.inPlan', { foods: formatList(locale, flagged) }) : null,
+    },
+    cautions: {
+      heading: t('caution.heading'),
+      lines: [
+        t('caution.prepared'),
+        t('caution.medicines'),
+        t('caution.symptoms'),
+        t('caution.estimates'),
+        t('caution.questions', { contact: clinic.contact }),
+      ],
+    },
+    fallbackKeys: [],
+  };
+  if (!messages.catalogue.patterns.has('footer.page')) fallbackKeys.add('footer.page');
+  value.fallbackKeys = [...fallbackKeys].sort();
+  return { ok: true, value };
+}
