@@ -29,6 +29,8 @@ declare module 'fastify' {
   }
   interface FastifyInstance {
     auth: AuthService;
+    /** Every route registered after accounts were installed (for the route inventory). */
+    routeInventory: RouteInfo[];
   }
 }
 
@@ -36,6 +38,14 @@ export interface AuthOptions {
   policy?: Partial<AuthPolicy>;
   /** Password hashing cost; tests pass TEST_SCRYPT_PARAMS. */
   scryptParams?: ScryptParams;
+}
+
+/** One registered route as the inventory sees it. */
+export interface RouteInfo {
+  method: string;
+  url: string;
+  public: boolean;
+  role: Role | null;
 }
 
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
@@ -95,6 +105,20 @@ export async function registerAuth(
   app.decorate('auth', service);
   app.decorateRequest('user', null);
   app.decorateRequest('authSession', null);
+  const inventory: RouteInfo[] = [];
+  app.decorate('routeInventory', inventory);
+  app.addHook('onRoute', (route) => {
+    const methods = Array.isArray(route.method) ? route.method : [route.method];
+    const config = route.config as { public?: boolean; role?: Role } | undefined;
+    for (const method of methods) {
+      inventory.push({
+        method,
+        url: route.url,
+        public: config?.public === true,
+        role: config?.role ?? null,
+      });
+    }
+  });
 
   app.addHook('onRequest', async (request, reply) => {
     setSecurityHeaders(request, reply);
