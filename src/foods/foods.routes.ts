@@ -7,10 +7,13 @@ import { foodSearchQuerySchema } from './food.js';
 import { toFoodHit, toFoodJson } from './food.json.js';
 import { FoodRepository } from './foods.repository.js';
 import { FoodService } from './foods.service.js';
+import { PhosphorusService } from '../phosphorus/phosphorus.service.js';
+import { toPhosphorusJson } from '../phosphorus/phosphorus.json.js';
 
 export const foodRoutes: FastifyPluginAsync<{ db: Db }> = async (app, { db }) => {
   const repo = new FoodRepository(db.kysely);
   const service = new FoodService(repo);
+  const phosphorus = new PhosphorusService(db);
   const api = app.withTypeProvider<ZodTypeProvider>();
 
   api.get(
@@ -22,7 +25,16 @@ export const foodRoutes: FastifyPluginAsync<{ db: Db }> = async (app, { db }) =>
         querystring: foodSearchQuerySchema,
       },
     },
-    async (req) => (await service.search(req.query)).map(toFoodHit),
+    async (req) => {
+      const foods = await service.search(req.query);
+      const profiles = await phosphorus.profiles(foods);
+      return foods.map((f) => ({
+        ...toFoodHit(f),
+        phosphorus: toPhosphorusJson(
+          profiles.get(f.id) as NonNullable<ReturnType<typeof profiles.get>>,
+        ),
+      }));
+    },
   );
 
   api.get(
@@ -41,8 +53,10 @@ export const foodRoutes: FastifyPluginAsync<{ db: Db }> = async (app, { db }) =>
         repo.getAllNutrients(food.id),
         repo.getProvenance(food.sourceId),
       ]);
+      const profile = await phosphorus.profile(food);
       return {
         ...toFoodJson(food),
+        phosphorus: toPhosphorusJson(profile),
         nutrients: nutrients.map((n) => ({
           code: n.code,
           name: n.name,

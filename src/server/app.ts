@@ -12,6 +12,8 @@ import type { Config } from '../config.js';
 import type { Db } from '../db/database.js';
 import { registerSecurity, type AuthOptions } from '../auth/security.js';
 import { foodRoutes } from '../foods/foods.routes.js';
+import { additivesRoutes } from '../additives/additives.routes.js';
+import { settingsRoutes } from '../settings/settings.routes.js';
 import { webRoutes } from '../web/web.routes.js';
 import { registerErrorHandler } from './error-handler.js';
 
@@ -76,6 +78,8 @@ export async function buildApp(deps: AppDeps): Promise<App> {
     time: deps.clock.now().toISOString(),
   }));
   await app.register(foodRoutes, { prefix: '/api', db: deps.db });
+  await app.register(additivesRoutes, { prefix: '/api' });
+  await app.register(settingsRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(webRoutes);
   return app;
 }

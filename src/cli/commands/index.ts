@@ -1,3 +1,4 @@
+import { ingredientsCommands } from '../../additives/ingredients.command.js';
 import { userCommands } from '../../auth/users.command.js';
 import { dbBackup, dbRestore } from '../../backup/backup.command.js';
 import type { Command } from '../command.js';
@@ -8,3 +9,4 @@ import { serveCommand } from './serve.js';
 /** Every CLI command; each area adds its own here. */
 export const commands: Command[] = [serveCommand, dbMigrate, sources, foodsSearch, foodsShow];
 commands.push(...userCommands, dbBackup, dbRestore);
+commands.push(...ingredientsCommands);
