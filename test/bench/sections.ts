@@ -1,3 +1,5 @@
+import { plansBench } from './plans.js';
+
 /** One benchmark section; each area adds its own file and registers it here. */
 export interface BenchSection {
   name: string;
@@ -6,3 +8,4 @@ export interface BenchSection {
 }
 
 export const sections: BenchSection[] = [];
+sections.push(plansBench);

@@ -1,6 +1,8 @@
 import { ingredientsCommands } from '../../additives/ingredients.command.js';
 import { userCommands } from '../../auth/users.command.js';
 import { dbBackup, dbRestore } from '../../backup/backup.command.js';
+import { patientCommands } from '../../patients/patients.command.js';
+import { planCommands } from '../../plans/plans.command.js';
 import type { Command } from '../command.js';
 import { dbMigrate, sources } from './db.js';
 import { foodsSearch, foodsShow } from './foods.js';
@@ -10,3 +12,4 @@ import { serveCommand } from './serve.js';
 export const commands: Command[] = [serveCommand, dbMigrate, sources, foodsSearch, foodsShow];
 commands.push(...userCommands, dbBackup, dbRestore);
 commands.push(...ingredientsCommands);
+commands.push(...planCommands, ...patientCommands);

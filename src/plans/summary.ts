@@ -1,0 +1,480 @@
+import type { BinderPrescription } from '../binders/binder.js';
+import {
+  BINDER_CATALOGUE,
+  KDOQI_2003_CALCIUM_LIMITS,
+  elementalCalciumMgPerUnit,
+  pbedGPerUnit,
+} from '../binders/catalogue.js';
+import { ROUNDING_RULE, distributeBinder } from '../binders/distribution.js';
+import type { Food } from '../foods/food.js';
+import type { TargetKey, Targets } from '../patients/targets.js';
+import { profileFood, scaleProfile, type PhosphorusProfile } from '../phosphorus/profile.js';
+import type { PlanContent } from './plan.js';
+import type {
+  BinderSummary,
+  Contributor,
+  DayStatus,
+  DaySummary,
+  ItemNutrients,
+  ItemSummary,
+  Nutrients,
+  NutrientKey,
+  OccasionSummary,
+  PlanSummary,
+  SummarySettings,
+  TargetCheck,
+} from './summary-types.js';
+
+export const SUMMARY_CAUTION =
+  'Estimates from food-table values and assumed absorption fractions, for the care team: they do not replace clinical judgement, laboratory results or the prescriber.';
+
+/** The plan as the summary sees it: one version's content and who it belongs to. */
+export interface PlanForSummary extends PlanContent {
+  planId: number;
+  patientId: number;
+  version: number;
+}
+
+/** Running sums in full precision (rounded only on output). */
+interface Acc {
+  p: number;
+  aLow: number;
+  aTyp: number;
+  aHigh: number;
+  add: number;
+  prot: number;
+  k: number;
+  na: number;
+  ca: number;
+  kcal: number;
+  missing: Set<NutrientKey>;
+}
+
+const newAcc = (): Acc => ({
+  p: 0,
+  aLow: 0,
+  aTyp: 0,
+  aHigh: 0,
+  add: 0,
+  prot: 0,
+  k: 0,
+  na: 0,
+  ca: 0,
+  kcal: 0,
+  missing: new Set(),
+});
+
+function addTo(acc: Acc, from: Acc): void {
+  acc.p += from.p;
+  acc.aLow += from.aLow;
+  acc.aTyp += from.aTyp;
+  acc.aHigh += from.aHigh;
+  acc.add += from.add;
+  acc.prot += from.prot;
+  acc.k += from.k;
+  acc.na += from.na;
+  acc.ca += from.ca;
+  acc.kcal += from.kcal;
+  for (const m of from.missing) acc.missing.add(m);
+}
+
+const r1 = (x: number) => Math.round(x * 10) / 10;
+const r2 = (x: number) => Math.round(x * 100) / 100;
+const rn = (x: number | null, f: (v: number) => number) => (x === null ? null : f(x));
+
+const NUTRIENT_ORDER: NutrientKey[] = [
+  'phosphorusMg',
+  'absorbablePhosphorusMg',
+  'proteinG',
+  'potassiumMg',
+  'sodiumMg',
+  'calciumMg',
+  'energyKcal',
+];
+
+function accToNutrients(a: Acc, divisor = 1): Nutrients {
+  const d = (x: number) => x / divisor;
+  return {
+    phosphorusMg: r1(d(a.p)),
+    absorbablePhosphorusMg: { low: r1(d(a.aLow)), typical: r1(d(a.aTyp)), high: r1(d(a.aHigh)) },
+    additivePhosphorusMg: r1(d(a.add)),
+    proteinG: r2(d(a.prot)),
+    phosphorusProteinRatioMgPerG: a.prot > 0 ? r1(a.p / a.prot) : null,
+    potassiumMg: r1(d(a.k)),
+    sodiumMg: r1(d(a.na)),
+    calciumMg: r1(d(a.ca)),
+    energyKcal: r1(d(a.kcal)),
+    incomplete: NUTRIENT_ORDER.filter((k) => a.missing.has(k)),
+  };
+}
+
+const TARGET_FIELD: Record<
+  TargetKey,
+  { label: string; unit: string; value: (n: Acc) => number; nutrient: NutrientKey }
+> = {
+  proteinG: { label: 'protein', unit: 'g', value: (a) => a.prot, nutrient: 'proteinG' },
+  energyKcal: { label: 'energy', unit: 'kcal', value: (a) => a.kcal, nutrient: 'energyKcal' },
+  sodiumMg: { label: 'sodium', unit: 'mg', value: (a) => a.na, nutrient: 'sodiumMg' },
+  phosphorusMg: { label: 'phosphorus', unit: 'mg', value: (a) => a.p, nutrient: 'phosphorusMg' },
+  potassiumMg: { label: 'potassium', unit: 'mg', value: (a) => a.k, nutrient: 'potassiumMg' },
+};
+
+function rangeText(min: number | null, max: number | null, unit: string): string {
+  if (min !== null && max !== null) return `${min}-${max} ${unit}`;
+  if (max !== null) return `at most ${max} ${unit}`;
+  return `at least ${min} ${unit}`;
+}
+
+/** Status of a day (or the plan average) against each target. */
+function checkTargets(a: Acc, targets: Targets, divisor = 1): DayStatus {
+  const checks: TargetCheck[] = [];
+  const messages: string[] = [];
+  for (const key of Object.keys(TARGET_FIELD) as TargetKey[]) {
+    const f = TARGET_FIELD[key];
+    const t = targets[key];
+    const value = f.value(a) / divisor;
+    const shown = key === 'proteinG' ? r1(value) : Math.round(value);
+    const incomplete = a.missing.has(f.nutrient);
+    let status: TargetCheck['status'];
+    let message: string;
+    if (t.min === null && t.max === null) {
+      status = 'not-set';
+      message = `${f.label} ${shown} ${f.unit}: no target set`;
+    } else if (t.min !== null && value < t.min) {
+      status = 'below';
+      message = `${f.label} ${shown} ${f.unit} is below the target ${rangeText(t.min, t.max, f.unit)}`;
+    } else if (t.max !== null && value > t.max) {
+      status = 'above';
+      message = `${f.label} ${shown} ${f.unit} is above the target ${rangeText(t.min, t.max, f.unit)}`;
+    } else {
+      status = 'within';
+      message = `${f.label} ${shown} ${f.unit} is within the target ${rangeText(t.min, t.max, f.unit)}`;
+    }
+    if (incomplete) message += ' (some foods have no value for it: a lower bound)';
+    if (status === 'below' || status === 'above') messages.push(message);
+    checks.push({
+      target: key,
+      value: key === 'proteinG' ? r2(value) : r1(value),
+      min: t.min,
+      max: t.max,
+      unit: t.unit,
+      status,
+      incomplete,
+      message,
+    });
+  }
+  return { level: messages.length > 0 ? 'attention' : 'on-target', checks, messages };
+}
+
+interface FoodFacts {
+  food: Food;
+  profile: PhosphorusProfile;
+  additive: boolean;
+  highRatio: boolean;
+}
+
+interface ContributorAcc {
+  facts: FoodFacts;
+  p: number;
+  aTyp: number;
+  occurrences: number;
+}
+
+function contributors(map: Map<number, ContributorAcc>, totalP: number, n: number): Contributor[] {
+  return [...map.values()]
+    .sort((a, b) => b.aTyp - a.aTyp || b.p - a.p || a.facts.food.id - b.facts.food.id)
+    .slice(0, n)
+    .map((c) => ({
+      foodId: c.facts.food.id,
+      name: c.facts.food.name,
+      phosphorusMg: r1(c.p),
+      absorbablePhosphorusMgTypical: r1(c.aTyp),
+      share: totalP > 0 ? Math.round((c.p / totalP) * 1000) / 1000 : 0,
+      occurrences: c.occurrences,
+      phosphorusProteinRatioMgPerG: rn(c.facts.profile.ratioMgPerG, r1),
+      flags: { additive: c.facts.additive, highRatio: c.facts.highRatio },
+    }));
+}
+
+function addContributor(
+  map: Map<number, ContributorAcc>,
+  facts: FoodFacts,
+  p: number,
+  aTyp: number,
+) {
+  const c = map.get(facts.food.id);
+  if (c) {
+    c.p += p;
+    c.aTyp += aTyp;
+    c.occurrences++;
+  } else map.set(facts.food.id, { facts, p, aTyp, occurrences: 1 });
+}
+
+/**
+ * The plan summary (pure): per item, occasion, day and plan average, each day against the
+ * targets, the top phosphorus contributors, additive and high-ratio flags, and the binder
+ * schedule for the prescription. Amounts in mg, g and kcal; ratios in mg phosphorus per g protein.
+ * Throws only for a bug (a food missing from `foods`).
+ */
+export function summarizePlan(
+  plan: PlanForSummary,
+  foods: ReadonlyMap<number, Food>,
+  targets: Targets,
+  settings: SummarySettings,
+  binder: BinderPrescription | null = null,
+): PlanSummary {
+  const { thresholds, absorption } = settings;
+  const factsCache = new Map<number, FoodFacts>();
+  const factsOf = (foodId: number): FoodFacts => {
+    let f = factsCache.get(foodId);
+    if (!f) {
+      const food = foods.get(foodId);
+      if (!food) throw new Error(`food ${foodId} missing from the summary's food map`);
+      const profile = profileFood(food, absorption);
+      f = {
+        food,
+        profile,
+        additive: profile.additiveLikely || profile.additiveEvidentFromName,
+        highRatio:
+          profile.ratioMgPerG !== null && profile.ratioMgPerG >= thresholds.highRatioMgPerG,
+      };
+      factsCache.set(foodId, f);
+    }
+    return f;
+  };
+
+  const planAcc = newAcc();
+  const planContrib = new Map<number, ContributorAcc>();
+  const days: DaySummary[] = [];
+  const dayAccs: Acc[] = [];
+  const loadsByDay: number[][] = [];
+
+  for (const day of plan.days) {
+    const dayAcc = newAcc();
+    const dayContrib = new Map<number, ContributorAcc>();
+    const occasions: OccasionSummary[] = [];
+    const occLoads: number[] = [];
+    for (const occ of day.occasions) {
+      const occAcc = newAcc();
+      const items: ItemSummary[] = [];
+      for (const it of occ.items) {
+        const facts = factsOf(it.foodId);
+        const { food } = facts;
+        const scaled = scaleProfile(facts.profile, it.grams);
+        const f = it.grams / 100;
+        const per = food.per100g;
+        const itemAcc = newAcc();
+        const val = (v: number | null, key: NutrientKey): number | null => {
+          if (v === null) {
+            itemAcc.missing.add(key);
+            return null;
+          }
+          return v * f;
+        };
+        const p = scaled.totalMg;
+        if (p === null) itemAcc.missing.add('phosphorusMg');
+        const abs = scaled.absorbableMg;
+        if (abs === null) itemAcc.missing.add('absorbablePhosphorusMg');
+        const prot = val(per.proteinG, 'proteinG');
+        const k = val(per.potassiumMg, 'potassiumMg');
+        const na = val(per.sodiumMg, 'sodiumMg');
+        const ca = val(per.calciumMg, 'calciumMg');
+        const kcal = val(per.energyKcal, 'energyKcal');
+        itemAcc.p = p ?? 0;
+        itemAcc.aLow = abs?.low ?? 0;
+        itemAcc.aTyp = abs?.typical ?? 0;
+        itemAcc.aHigh = abs?.high ?? 0;
+        itemAcc.add = scaled.additiveMg ?? 0;
+        itemAcc.prot = prot ?? 0;
+        itemAcc.k = k ?? 0;
+        itemAcc.na = na ?? 0;
+        itemAcc.ca = ca ?? 0;
+        itemAcc.kcal = kcal ?? 0;
+        addTo(occAcc, itemAcc);
+        addContributor(dayContrib, facts, itemAcc.p, itemAcc.aTyp);
+        addContributor(planContrib, facts, itemAcc.p, itemAcc.aTyp);
+        const nutrients: ItemNutrients = {
+          phosphorusMg: rn(p, r1),
+          absorbablePhosphorusMg: abs
+            ? { low: r1(abs.low), typical: r1(abs.typical), high: r1(abs.high) }
+            : null,
+          additivePhosphorusMg: rn(scaled.additiveMg, r1),
+          proteinG: rn(prot, r2),
+          phosphorusProteinRatioMgPerG: rn(facts.profile.ratioMgPerG, r1),
+          potassiumMg: rn(k, r1),
+          sodiumMg: rn(na, r1),
+          calciumMg: rn(ca, r1),
+          energyKcal: rn(kcal, r1),
+        };
+        items.push({
+          foodId: food.id,
+          foodName: food.name,
+          foodCode: food.code,
+          source: food.source,
+          grams: r1(it.grams),
+          measure: it.measure
+            ? {
+                portionId: it.measure.portionId,
+                count: it.measure.count,
+                description: it.measure.description,
+              }
+            : null,
+          label: it.label ?? food.name,
+          nutrients,
+          splitMethod: facts.profile.method,
+          flags: { additive: facts.additive, highRatio: facts.highRatio },
+        });
+      }
+      addTo(dayAcc, occAcc);
+      occasions.push({
+        name: occ.name,
+        kind: occ.kind,
+        time: occ.time,
+        items,
+        nutrients: accToNutrients(occAcc),
+      });
+      occLoads.push(occAcc.aTyp); // unrounded, for the binder distribution
+    }
+    addTo(planAcc, dayAcc);
+    dayAccs.push(dayAcc);
+    loadsByDay.push(occLoads);
+    days.push({
+      label: day.label,
+      occasions,
+      nutrients: accToNutrients(dayAcc),
+      targets,
+      status: checkTargets(dayAcc, targets),
+      topContributors: contributors(dayContrib, dayAcc.p, Math.min(3, thresholds.topContributors)),
+    });
+  }
+
+  const n = Math.max(1, plan.days.length);
+  const additiveFoods: PlanSummary['flags']['additiveFoods'] = [];
+  const highRatioFoods: PlanSummary['flags']['highRatioFoods'] = [];
+  for (const f of factsCache.values()) {
+    if (f.additive)
+      additiveFoods.push({ foodId: f.food.id, name: f.food.name, evidence: f.profile.evidence });
+    if (f.highRatio)
+      highRatioFoods.push({
+        foodId: f.food.id,
+        name: f.food.name,
+        phosphorusProteinRatioMgPerG: r1(f.profile.ratioMgPerG as number),
+      });
+  }
+
+  return {
+    planId: plan.planId,
+    patientId: plan.patientId,
+    version: plan.version,
+    name: plan.name,
+    days,
+    average: { nutrients: accToNutrients(planAcc, n), status: checkTargets(planAcc, targets, n) },
+    topContributors: contributors(planContrib, planAcc.p, thresholds.topContributors),
+    flags: { additiveFoods, highRatioFoods },
+    binders: summarizeBinders(binder, days, dayAccs, loadsByDay, settings),
+    thresholds,
+    caution: SUMMARY_CAUTION,
+  };
+}
+
+function summarizeBinders(
+  binder: BinderPrescription | null,
+  days: readonly DaySummary[],
+  dayAccs: readonly Acc[],
+  loadsByDay: readonly number[][],
+  settings: SummarySettings,
+): BinderSummary {
+  const limits = {
+    ...KDOQI_2003_CALCIUM_LIMITS,
+    source: 'KDOQI 2003 (Am J Kidney Dis 2003;42(4 Suppl 3)) Guideline 5',
+  };
+  const caution =
+    'The product spreads the prescribed binder over the meals; it does not set or change the dose. Disagreements are for the prescriber to review.';
+  if (!binder) {
+    return {
+      prescription: null,
+      ingredient: null,
+      roundingRule: ROUNDING_RULE,
+      perOccasion: [],
+      days: [],
+      elementalCalciumMgPerDay: 0,
+      limits,
+      caution,
+    };
+  }
+  const info = BINDER_CATALOGUE[binder.ingredient];
+  const perOccasion: BinderSummary['perOccasion'] = [];
+  const dayEntries: BinderSummary['days'] = [];
+  let maxCa = 0;
+  days.forEach((day, di) => {
+    const s = distributeBinder(
+      binder,
+      day.occasions.map((o, oi) => ({
+        name: o.name,
+        kind: o.kind,
+        time: o.time ?? undefined,
+        absorbableMg: loadsByDay[di]?.[oi] ?? o.nutrients.absorbablePhosphorusMg.typical,
+      })),
+      {
+        minAbsorbableMgPerOccasion: settings.thresholds.binderMinAbsorbableMgPerOccasion,
+        highLoadOccasionMg: settings.thresholds.highLoadOccasionMg,
+      },
+      (dayAccs[di] as Acc).ca,
+    );
+    for (const o of s.occasions) {
+      perOccasion.push({
+        day: day.label,
+        occasion: o.occasion,
+        time: o.time,
+        absorbablePhosphorusMgTypical: r1(o.absorbableMg),
+        units: o.units,
+        exactShare: o.exactShare,
+        reason: o.reason,
+        timing: o.timing,
+      });
+    }
+    maxCa = Math.max(maxCa, s.elementalCalciumMgFromBinders);
+    dayEntries.push({
+      day: day.label,
+      prescribedUnits: s.prescribedUnits,
+      distributedUnits: s.distributedUnits,
+      pbedG: s.pbedGPerDay,
+      elementalCalciumMgFromBinders: r1(s.elementalCalciumMgFromBinders),
+      elementalCalciumMgTotal: r1(s.elementalCalciumMgTotal),
+      disagreements: s.disagreements,
+    });
+  });
+  const meds = binder.otherMedicines ?? [];
+  return {
+    prescription: binder,
+    ingredient: {
+      displayName: info.displayName,
+      timing: info.timing,
+      timingSource: info.timingSource,
+      warnings: info.warnings,
+      spacing: info.spacing,
+      spacingForListedMedicines: meds
+        .map((m) => ({
+          medicine: m,
+          notes: info.spacing.filter((s) =>
+            s.medicines.toLowerCase().includes(m.toLowerCase().split(/\s+/)[0] ?? ''),
+          ),
+        }))
+        .filter((x) => x.notes.length > 0),
+      pbedGPerUnit: pbedGPerUnit(binder.ingredient, binder.unitStrengthMg),
+      pbedSource:
+        info.rpbcPerG === null
+          ? 'no phosphate-binder equivalent published for this ingredient (Daugirdas 2011 covers calcium, sevelamer, lanthanum, magnesium and aluminium binders)'
+          : `Daugirdas JT et al., Semin Dial 2011;24(1):41-49: ${info.rpbcPerG} g calcium carbonate per g`,
+      elementalCalciumMgPerUnit: r1(
+        elementalCalciumMgPerUnit(binder.ingredient, binder.unitStrengthMg),
+      ),
+    },
+    roundingRule: ROUNDING_RULE,
+    perOccasion,
+    days: dayEntries,
+    elementalCalciumMgPerDay: r1(maxCa),
+    limits,
+    caution,
+  };
+}
