@@ -7,6 +7,9 @@ export interface CsvRow {
   /** Fields by header name (missing trailing fields are ''). */
   get(column: string): string;
   fields: string[];
+  /** Column keys and the header cells as written (shared by every row of the file). */
+  header: readonly string[];
+  rawHeader: readonly string[];
   /** 1-based line where the record ends (a quoted field may span lines). */
   line: number;
 }
@@ -19,6 +22,8 @@ export interface CsvOptions {
   required: readonly string[];
   issues: IssueLog;
   onBytes?: (n: number) => void;
+  /** Turns a header cell into the column's key (default: trimmed text). */
+  columnKey?: (header: string) => string;
   /** A header-only file stops the import (true) or is fine (false: optional side files). */
   requireRows?: boolean;
 }
@@ -55,6 +60,7 @@ export async function* readCsv(stream: Readable, opts: CsvOptions): AsyncGenerat
     issues.skip(file, line, ImportCodes.rowQuote, `${file} line ${line}: ${e.message}`);
   });
   let header: string[] | null = null;
+  let rawHeader: string[] = [];
   let index = new Map<string, number>();
   let rows = 0;
   let lastRow: { fields: string[]; line: number } | null = null;
@@ -63,7 +69,8 @@ export async function* readCsv(stream: Readable, opts: CsvOptions): AsyncGenerat
   const handle = (item: { record: string[]; info: { lines: number } }, out: CsvRow[]) => {
     const { record, info } = item;
     if (!header) {
-      header = record.map((h) => h.trim());
+      rawHeader = record.map((h) => h.trim());
+      header = rawHeader.map((h) => (opts.columnKey ? opts.columnKey(h) : h));
       index = new Map(header.map((h, i) => [h, i]));
       checkHeader(header, opts);
       return;
@@ -94,7 +101,9 @@ export async function* readCsv(stream: Readable, opts: CsvOptions): AsyncGenerat
     }
     rows++;
     const fields = r.fields;
-    return [{ fields, line: r.line, get: (c) => fields[index.get(c) ?? -1] ?? '' }];
+    return [
+      { fields, header: h, rawHeader, line: r.line, get: (c) => fields[index.get(c) ?? -1] ?? '' },
+    ];
   };
 
   for await (const text of decodeText(stream, file, 'utf-8', opts.onBytes)) {

@@ -117,3 +117,19 @@ export function toFatal(err: unknown) {
   }
   return undefined;
 }
+
+/** The result for an import that could not start (missing path, missing file, bad zip). */
+export function failedBeforeStart(format: string, err: unknown): ImportResult {
+  const fatal = toFatal(err);
+  if (!fatal) throw err;
+  return {
+    ok: false,
+    format,
+    imported: 0,
+    skipped: 0,
+    errors: [],
+    issueCount: 0,
+    fatal,
+    notes: [],
+  };
+}

@@ -3,7 +3,7 @@ import { readCaretFile } from './caret.js';
 import { openFileSet, requireEntry, type FileSet } from './files.js';
 import type { ImportOptions, ImportResult, Importer } from './importer.js';
 import { ImportCodes, parseNumberField, structural } from './issues.js';
-import { runImport, toFatal, type ImportContext } from './run.js';
+import { failedBeforeStart, runImport, type ImportContext } from './run.js';
 
 // Field counts per file, from the SR28 documentation (sr28_doc.pdf, chapter 2).
 const FIELDS = { FD_GROUP: 2, NUTR_DEF: 6, FOOD_DES: 14, WEIGHT: 7, NUT_DATA: 18 } as const;
@@ -186,18 +186,7 @@ export const usdaSr28: Importer = {
       set = await openFileSet(path);
       for (const f of FILES) requireEntry(set, f);
     } catch (err) {
-      const fatal = toFatal(err);
-      if (!fatal) throw err;
-      return {
-        ok: false,
-        format: meta.format,
-        imported: 0,
-        skipped: 0,
-        errors: [],
-        issueCount: 0,
-        fatal,
-        notes: [],
-      };
+      return failedBeforeStart(meta.format, err);
     }
     const total = FILES.reduce((n, f) => n + (set.find(f)?.size ?? 0), 0);
     try {

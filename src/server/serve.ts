@@ -8,6 +8,7 @@ import {
   trustProxyFromEnv,
   type TlsFiles,
 } from '../auth/transport.js';
+import { importDefaultFoodTable } from '../../data-import/first-start.js';
 import { buildApp } from './app.js';
 
 export interface ServeIo {
@@ -53,6 +54,8 @@ export interface FirstStartContext {
 
 /** Steps run at every start before listening (each decides itself whether it has work). */
 export const firstStartSteps: Array<(ctx: FirstStartContext) => Promise<void>> = [];
+// The embedded default food table comes first: later steps (the demo seed) need foods.
+firstStartSteps.unshift(importDefaultFoodTable);
 
 /**
  * Request logs carry the method, the route pattern and the status only: never query strings,

@@ -6,10 +6,12 @@ import { planCommands } from '../../plans/plans.command.js';
 import type { Command } from '../command.js';
 import { dbMigrate, sources } from './db.js';
 import { foodsSearch, foodsShow } from './foods.js';
+import { importCommand } from './import.js';
 import { serveCommand } from './serve.js';
 
 /** Every CLI command; each area adds its own here. */
 export const commands: Command[] = [serveCommand, dbMigrate, sources, foodsSearch, foodsShow];
 commands.push(...userCommands, dbBackup, dbRestore);
+commands.push(importCommand);
 commands.push(...ingredientsCommands);
 commands.push(...planCommands, ...patientCommands);
