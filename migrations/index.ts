@@ -2,6 +2,7 @@ import type { Migration } from 'kysely';
 import * as foodTables from './202612012000_food_tables.js';
 import * as accountsAudit from './202612012040_accounts_audit.js';
 import * as patientsPlans from './202612012050_patients_plans.js';
+import * as patientErasure from './202612012100_patient_erasure.js';
 
 /**
  * Every migration, by name (no extension, so the same database works from any runner).
@@ -11,4 +12,5 @@ export const migrations: Record<string, Migration> = {
   '202612012000_food_tables': foodTables,
   '202612012040_accounts_audit': accountsAudit,
   '202612012050_patients_plans': patientsPlans,
+  '202612012100_patient_erasure': patientErasure,
 };

@@ -6,6 +6,7 @@ import type { Clock } from '../clock.js';
 import type { Db } from '../db/database.js';
 import { AuditService, auditCsvHeader, auditCsvLine } from './audit.service.js';
 import { auditQuerySchema } from './audit.js';
+import { PatientDataService } from './patient-data.service.js';
 
 /** Admin view and export of the audit log. Reading the log is itself recorded. */
 export const auditRoutes: FastifyPluginAsync<{ db: Db; clock: Clock }> = async (
@@ -66,5 +67,50 @@ export const auditRoutes: FastifyPluginAsync<{ db: Db; clock: Clock }> = async (
         );
       return reply.send(Readable.from(lines()));
     },
+  );
+};
+
+/** Export (JSON) and erasure of one patient's data. Erasure is for admins. */
+export const patientDataRoutes: FastifyPluginAsync<{ db: Db; clock: Clock }> = async (
+  app,
+  { db, clock },
+) => {
+  const service = new PatientDataService(db, clock);
+  const api = app.withTypeProvider<ZodTypeProvider>();
+  const params = z.object({ id: z.coerce.number().int().positive() });
+
+  api.get(
+    '/patients/:id/export',
+    {
+      config: { audit: { action: 'patient.export', entity: 'patient' } },
+      schema: {
+        tags: ['patients'],
+        summary: "Everything stored about one patient, as JSON (the patient's right of access)",
+        params,
+      },
+    },
+    async (req, reply) => {
+      const data = service.export(req.params.id, req.user!);
+      reply.header(
+        'content-disposition',
+        `attachment; filename="phosledger-patient-${req.params.id}.json"`,
+      );
+      return data;
+    },
+  );
+
+  api.post(
+    '/patients/:id/erase',
+    {
+      config: { role: 'admin' },
+      schema: {
+        tags: ['patients'],
+        summary:
+          'Delete one patient with plans and diaries; audit events stay under an opaque reference',
+        params,
+        body: z.object({ confirm: z.literal('erase') }),
+      },
+    },
+    async (req) => service.erase(req.params.id, req.user!),
   );
 };

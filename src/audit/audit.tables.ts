@@ -15,6 +15,13 @@ export interface AuditEventTable {
   details_json: string | null;
 }
 
+/** Marks a patient whose rows are being erased (only inside the erasing transaction). */
+export interface PatientErasureTable {
+  patient_id: number;
+  started_at: string;
+}
+
 export interface AuditTables {
   audit_event: AuditEventTable;
+  patient_erasure: PatientErasureTable;
 }

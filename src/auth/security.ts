@@ -1,6 +1,6 @@
 import type { FastifyInstance } from 'fastify';
 import { registerAudit } from '../audit/audit.hook.js';
-import { auditRoutes } from '../audit/audit.routes.js';
+import { auditRoutes, patientDataRoutes } from '../audit/audit.routes.js';
 import type { Clock } from '../clock.js';
 import type { Db } from '../db/database.js';
 import { authRoutes } from './auth.routes.js';
@@ -23,5 +23,6 @@ export async function registerSecurity(
   registerAudit(app, deps);
   await app.register(authRoutes, { prefix: '/api', db: deps.db, clock: deps.clock, auth });
   await app.register(auditRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
+  await app.register(patientDataRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(setupRoutes, { db: deps.db, clock: deps.clock, auth });
 }
