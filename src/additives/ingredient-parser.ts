@@ -240,7 +240,8 @@ const ABBREVIATIONS = new Map<string, AdditiveEntry>();
 for (const e of ADDITIVE_CATALOGUE)
   for (const a of e.abbreviations) ABBREVIATIONS.set(a.toLowerCase(), e);
 
-const QUICK_RE = /ph?os|fos|[0-9]|le[cz]it|guan[yi]l|inosin|ribonu|sapp|stpp|shmp|tspp|salp|\+/i;
+// Cheap pre-check on the raw text (accents allowed between letters): no hit, no phosphate.
+const QUICK_RE = /ph?os|f[oó]s|[0-9]|l\S?[cz]\S?t|guan|inos|ribon|sapp|stpp|shmp|tspp|salp|\+/i;
 
 // ---------------------------------------------------------------------------------------------
 
@@ -734,7 +735,11 @@ function scan(norm: string, tokens: Token[]): Raw[] {
       if (prefix && /hydrogeno|hidrogeno|idrogeno/.test(prefix)) {
         hydrogen = prefix.startsWith('di') ? 2 : 1;
         anion = 'ortho';
-        if (hydrogen === 1 && word(i - 1) === 'di' && tok(i - 1)?.e === t.s) hydrogen = 2;
+        if (hydrogen === 1 && tok(i - 1)?.t === '-' && word(i - 2) === 'di') {
+          // Portuguese "di-hidrogenofosfato"
+          hydrogen = 2;
+          s = (tokens[i - 2] as Token).s;
+        }
       } else {
         anion = anionOf(prefix);
       }
@@ -993,7 +998,8 @@ function scan(norm: string, tokens: Token[]): Raw[] {
       });
       continue;
     }
-    if (anion === 'poly' && kinds.has('Na') && kinds.has('Ca') && !conjunction) {
+    // Sodium calcium polyphosphate is one salt, also when written "de sodio y calcio".
+    if (anion === 'poly' && kinds.has('Na') && kinds.has('Ca')) {
       raws.push({
         entry: entryOrFamily('452', 'iii') as AdditiveEntry,
         s,
@@ -1027,7 +1033,7 @@ function scan(norm: string, tokens: Token[]): Raw[] {
         entry: saltEntry(c.cation, c.mult, hydrogen, anion, acid, basic),
         s: cs,
         e: ce,
-        how: `name "${norm.slice(cs, ce)}" (one of several salts named together)`,
+        how: `name "${norm.slice(cs, ce)}" (${conjunction ? 'one of several salts named together' : 'mixed salt, read as the salt of each cation'})`,
         byNumber: false,
         group,
       });
