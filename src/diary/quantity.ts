@@ -352,6 +352,11 @@ function readAmount(c: Cursor): number | null {
     return Number(frac[1]) / d;
   }
   const dec = readDecimal(c);
+  if (dec !== null && /^\s*%/.test(c.rest())) {
+    // "2% milk" names a fat content, not an amount.
+    c.pos = start;
+    return null;
+  }
   if (dec !== null) {
     // Mixed number: "1 1/2", "1 ½", "1½", "1-1/2".
     const save = c.pos;
@@ -658,11 +663,10 @@ export function splitQuantity(text: string): SplitEntry {
     if (!part || !food) continue;
     if (/^[x×]\s*\d/.test(part)) part = part.replace(/^[x×]\s*/, '');
     const parsed = parseQuantity(part);
-    if (
-      parsed.ok &&
-      (parsed.value.unit !== null || /^\d/.test(part)) &&
-      parsed.value.measureText === null
-    ) {
+    // A trailing quantity must start with an amount ("en lata" alone is part of the food's name).
+    const startsWithAmount =
+      /^[\d½⅓⅔¼¾⅕⅛⅜⅝⅞]/.test(part) || readWordAmount(new Cursor(fold(part)), 0) !== null;
+    if (parsed.ok && startsWithAmount && parsed.value.measureText === null) {
       return { quantity: parsed.value, foodText: food };
     }
   }

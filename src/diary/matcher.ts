@@ -1,0 +1,721 @@
+/**
+ * Pure scoring for diary matching, on top of the food search: turns a diary phrase into search
+ * words (plain-language and Spanish words mapped to food-table words), then scores each found
+ * food: coverage of the words, the main word in the food's head, a plain generic food before a
+ * branded or special one unless a brand is named, and the usual state (cooked meat, raw fruit).
+ */
+import { foldText } from '../foods/text.js';
+
+/** What the scorer needs of a food. */
+export interface ScorableFood {
+  id: number;
+  name: string;
+  kind: 'generic' | 'branded';
+  brandOwner: string | null;
+  group: string | null;
+  /** The food's household measures: common foods have more of them in the tables. */
+  portions?: readonly { description: string }[];
+}
+
+export interface PreparedQuery {
+  /** The text as given (quantity already removed). */
+  text: string;
+  /** Content words after mapping, folded and stemmed. */
+  words: string[];
+  /** Words that must not be dropped when searching with fewer words (the head food words). */
+  headWords: string[];
+  /** States the diary named (cooked, raw, fried, canned...). */
+  states: Set<string>;
+  /** Folded original words (to see whether a brand is named). */
+  rawWords: Set<string>;
+}
+
+export interface ScoredFood<F extends ScorableFood = ScorableFood> {
+  food: F;
+  score: number;
+  /** Share of the query words found in the food's name, 0-1. */
+  coverage: number;
+}
+
+/** Words that carry no food meaning in a diary line (English and Spanish). */
+const STOP = new Set(
+  (
+    'a an the of with and or some my usual little bit few piece pieces plain regular normal homemade ' +
+    'home made fresh small medium large big extra glass glasses cup cups bowl mug mugs serving portion ' +
+    'x of in on for to from at had ate drank about approx approximately like just also then side ' +
+    'de del la el los las un una unos unas con y o al en mi mis poco para ' +
+    'vaso taza plato trozo racion porcion'
+  ).split(' '),
+);
+/** Words that keep their meaning even though they look like stop words in a food name. */
+const KEEP_WITH = new Set(['oil', 'water', 'syrup', 'skin', 'salt', 'bone']);
+
+/**
+ * Diary words to food-table words (folded). Common household and Spanish names; the labeller's
+ * own list (common practice, no source). A value may hold several words.
+ */
+export const DIARY_SYNONYMS: Record<string, string> = {
+  // English household words
+  toast: 'bread toasted',
+  coke: 'cola',
+  soda: 'carbonated',
+  pop: 'carbonated',
+  oj: 'orange juice',
+  fries: 'french fried potato',
+  chips: 'chips',
+  porridge: 'oats cooked water',
+  oatmeal: 'oats cooked water',
+  cornflakes: 'corn flakes',
+  yoghurt: 'yogurt',
+  yogourt: 'yogurt',
+  spaghetti: 'pasta cooked',
+  macaroni: 'pasta cooked',
+  hamburger: 'beef ground patty',
+  burger: 'cheeseburger',
+  steak: 'beef steak',
+  'hot dog': 'frankfurter',
+  hotdog: 'frankfurter',
+  frank: 'frankfurter',
+  frankfurter: 'frankfurter',
+  ketchup: 'catsup',
+  mayo: 'mayonnaise',
+  mayonnaise: 'mayonnaise',
+  doughnut: 'doughnuts',
+  donut: 'doughnuts',
+  nuggets: 'chicken tenders',
+  nugget: 'chicken tenders',
+  sausage: 'sausage',
+  zucchini: 'zucchini',
+  courgette: 'zucchini',
+  aubergine: 'eggplant',
+  prawns: 'shrimp',
+  prawn: 'shrimp',
+  crisps: 'potato chips',
+  biscuit: 'cookies',
+  biscuits: 'cookies',
+  cookie: 'cookies',
+  cookies: 'cookies',
+  jam: 'jams preserves',
+  jelly: 'jams preserves',
+  cheeseburger: 'cheeseburger',
+  pancake: 'pancakes',
+  waffle: 'waffles',
+  muffin: 'muffins',
+  bagel: 'bagels',
+  croissant: 'croissants',
+  tortilla: 'tortillas',
+  cracker: 'crackers',
+  crackers: 'crackers',
+  saltine: 'saltines',
+  saltines: 'saltines',
+  pretzel: 'pretzels',
+  raisin: 'raisins',
+  peanut: 'peanuts',
+  almond: 'almonds',
+  walnut: 'walnuts',
+  cashew: 'cashew',
+  cashews: 'cashew',
+  chickpea: 'chickpeas',
+  garbanzo: 'chickpeas',
+  apricot: 'apricots',
+  mango: 'mangos',
+  plum: 'plums',
+  peach: 'peaches',
+  pear: 'pears',
+  orange: 'oranges',
+  grape: 'grapes',
+  avocado: 'avocados',
+  kiwi: 'kiwifruit',
+  cantaloupe: 'cantaloupe',
+  lentil: 'lentils',
+  mushroom: 'mushrooms',
+  onion: 'onions',
+  tomato: 'tomatoes',
+  potato: 'potatoes',
+  carrot: 'carrots',
+  pepper: 'peppers',
+  pepperoni: 'pepperoni',
+  coffee: 'coffee',
+  tea: 'tea',
+  beer: 'beer',
+  wine: 'wine',
+  'hot chocolate': 'cocoa',
+  cocoa: 'cocoa',
+  'ice cream': 'ice creams',
+  'soy milk': 'soymilk',
+  soymilk: 'soymilk',
+  'egg whites': 'egg white',
+  'egg white': 'egg white',
+  'sour cream': 'cream sour',
+  'heavy cream': 'cream heavy',
+  'cream cheese': 'cheese cream',
+  'cottage cheese': 'cheese cottage',
+  'american cheese': 'cheese american',
+  'processed cheese': 'cheese process american',
+  'swiss cheese': 'cheese swiss',
+  'feta cheese': 'cheese feta',
+  'cheddar cheese': 'cheese cheddar',
+  cheddar: 'cheese cheddar',
+  mozzarella: 'cheese mozzarella',
+  parmesan: 'cheese parmesan',
+  brie: 'cheese brie',
+  feta: 'cheese feta',
+  'lemon lime': 'lemon-lime',
+  'diet coke': 'low calorie cola aspartame',
+  'diet cola': 'low calorie cola aspartame',
+  'whole wheat': 'whole-wheat',
+  wholemeal: 'whole-wheat',
+  'brown bread': 'bread whole-wheat',
+  'corn on the cob': 'corn sweet cooked',
+  'sweet corn': 'corn sweet',
+  'green beans': 'beans snap green',
+  'string beans': 'beans snap green',
+  'baked beans': 'beans baked',
+  'kidney beans': 'beans kidney',
+  'black beans': 'beans black',
+  'refried beans': 'refried beans',
+  'french fries': 'french fried potato',
+  'chicken noodle soup': 'soup chicken noodle',
+  'tomato soup': 'soup tomato',
+  'tomato sauce': 'sauce pasta',
+  'soy sauce': 'soy sauce',
+  'peanut butter': 'peanut butter',
+  'olive oil': 'oil olive',
+  'vegetable oil': 'oil soybean',
+  'maple syrup': 'syrups maple',
+  'potato chips': 'potato chips',
+  'tortilla chips': 'tortilla chips',
+  'granola bar': 'granola bars',
+  'chocolate bar': 'candies milk chocolate',
+  'chocolate milk': 'milk chocolate fluid',
+  'fish sticks': 'fish sticks',
+  'fish fingers': 'fish sticks',
+  'apple juice': 'apple juice',
+  'grape juice': 'grape juice',
+  'orange juice': 'orange juice',
+  'cranberry juice': 'cranberry juice',
+  'lemon juice': 'lemon juice',
+  'roast beef': 'beef roast',
+  'corned beef': 'beef corned',
+  'beef liver': 'beef liver',
+  'ground beef': 'beef ground',
+  'lamb chop': 'lamb loin',
+  'pork chop': 'pork loin chops',
+  'mashed potatoes': 'potatoes mashed',
+  'baked potato': 'potatoes baked',
+  'boiled potatoes': 'potatoes boiled',
+  'sweet potato': 'sweet potato',
+  'english muffin': 'english muffins',
+  'pita bread': 'bread pita',
+  'rye bread': 'bread rye',
+  'skim milk': 'milk nonfat',
+  'low fat': 'lowfat',
+  'green tea': 'tea green',
+  'black coffee': 'coffee brewed',
+  'instant coffee': 'coffee instant',
+  'red wine': 'wine red',
+  'white wine': 'wine white',
+  'root beer': 'root beer',
+  'ginger ale': 'ginger ale',
+  'canned tuna': 'tuna canned',
+  'canned salmon': 'salmon canned',
+  'canned peaches': 'peaches canned',
+  'canned sweet corn': 'corn sweet canned',
+  'iceberg lettuce': 'lettuce iceberg',
+  'green pepper': 'peppers sweet green',
+  'chicken breast': 'chicken breast',
+  'chicken thigh': 'chicken thigh',
+  'fried chicken': 'chicken fried',
+  'scrambled eggs': 'egg scrambled',
+  'boiled eggs': 'egg hard-boiled',
+  'boiled egg': 'egg hard-boiled',
+  'hard boiled egg': 'egg hard-boiled',
+  'fried eggs': 'egg fried',
+  'fried egg': 'egg fried',
+  'poached egg': 'egg poached',
+  'turkey slices': 'turkey breast sliced',
+  'deli turkey': 'turkey breast sliced',
+  'chocolate cake': 'cake chocolate',
+  'apple pie': 'pie apple',
+  'vanilla pudding': 'puddings vanilla',
+  'sunflower seeds': 'sunflower seed kernels',
+  'blueberry muffin': 'muffins blueberry',
+  'macaroni and cheese': 'macaroni cheese',
+  'mac and cheese': 'macaroni cheese',
+  'cheese pizza': 'pizza cheese',
+  water: 'water tap',
+  sugar: 'sugars granulated',
+  honey: 'honey',
+  margarine: 'margarine',
+  butter: 'butter',
+  // Spanish
+  pan: 'bread',
+  'pan blanco': 'bread white',
+  'pan integral': 'bread whole-wheat',
+  tostada: 'bread toasted',
+  leche: 'milk',
+  'leche desnatada': 'milk nonfat',
+  arroz: 'rice',
+  'arroz blanco': 'rice white',
+  huevo: 'egg',
+  huevos: 'egg',
+  'huevos fritos': 'egg fried',
+  'huevo frito': 'egg fried',
+  'huevo cocido': 'egg hard-boiled',
+  frito: 'fried',
+  fritos: 'fried',
+  platano: 'bananas',
+  banana: 'bananas',
+  manzana: 'apples',
+  apple: 'apples',
+  naranja: 'oranges',
+  pollo: 'chicken',
+  pechuga: 'breast',
+  asada: 'roasted',
+  asado: 'roasted',
+  queso: 'cheese',
+  frijoles: 'beans',
+  judias: 'beans',
+  alubias: 'beans',
+  negros: 'black',
+  refresco: 'carbonated',
+  cafe: 'coffee',
+  'cafe solo': 'coffee brewed',
+  'cafe con leche': 'coffee brewed',
+  yogur: 'yogurt',
+  natural: 'plain',
+  jamon: 'ham sliced',
+  lonchas: '',
+  zumo: 'juice',
+  jugo: 'juice',
+  'zumo de naranja': 'orange juice',
+  lentejas: 'lentils',
+  cocidas: 'cooked',
+  cocido: 'cooked',
+  cocida: 'cooked',
+  'patatas fritas': 'french fried potato',
+  patatas: 'potatoes',
+  papas: 'potatoes',
+  mantequilla: 'butter',
+  atun: 'tuna',
+  'en lata': 'canned',
+  lata: 'canned',
+  cerveza: 'beer',
+  vino: 'wine',
+  galletas: 'cookies',
+  galleta: 'cookies',
+  pescado: 'fish',
+  carne: 'beef',
+  cerdo: 'pork',
+  tomate: 'tomatoes',
+  lechuga: 'lettuce',
+  zanahoria: 'carrots',
+  cebolla: 'onions',
+  azucar: 'sugars granulated',
+  agua: 'water tap',
+  aceite: 'oil',
+  'aceite de oliva': 'oil olive',
+  blanco: 'white',
+  blanca: 'white',
+  white: 'white',
+  'chispas de chocolate': 'chocolate chip',
+};
+
+/** State words a food name can carry; a diary that names none gets the usual state. */
+const STATE_WORDS = new Set([
+  'raw',
+  'cooked',
+  'boiled',
+  'fried',
+  'roasted',
+  'baked',
+  'broiled',
+  'grilled',
+  'stewed',
+  'steamed',
+  'canned',
+  'frozen',
+  'dried',
+  'dry',
+  'toasted',
+  'scrambled',
+  'poached',
+  'smoked',
+  'microwaved',
+]);
+/** Diary words that mean a food-table state (grilled meat is listed as broiled or roasted). */
+const STATE_ALIASES: Record<string, string[]> = {
+  grilled: ['grilled', 'broiled', 'roasted'],
+  roast: ['roasted'],
+  baked: ['baked', 'roasted', 'dry heat'],
+  boiled: ['boiled', 'moist heat', 'cooked'],
+  cooked: ['cooked', 'boiled', 'roasted', 'baked', 'broiled', 'moist heat', 'dry heat', 'prepared'],
+  tinned: ['canned'],
+};
+
+/** Groups whose foods a diary usually means cooked (meat, fish, grains, legumes). */
+const USUALLY_COOKED_GROUPS = new Set([
+  'Poultry Products',
+  'Beef Products',
+  'Pork Products',
+  'Lamb, Veal, and Game Products',
+  'Finfish and Shellfish Products',
+  'Legumes and Legume Products',
+  'Cereal Grains and Pasta',
+]);
+/** Vegetables usually eaten cooked when the diary does not say (labeller's judgement). */
+const USUALLY_COOKED_WORDS = new Set(
+  [
+    'potatoes',
+    'potato',
+    'broccoli',
+    'cauliflower',
+    'beans',
+    'peas',
+    'corn',
+    'lentils',
+    'chickpeas',
+    'rice',
+    'pasta',
+    'noodles',
+    'spinach',
+    'squash',
+    'sweet',
+  ].map((w) => stem(w)),
+);
+
+/** Name words that mark a special rather than the plain generic food. */
+const SPECIAL_WORDS = new Set([
+  'babyfood',
+  'infant',
+  'formula',
+  'toddler',
+  'school',
+  'lunch',
+  'commodity',
+  'usda',
+  'industrial',
+  'restaurant',
+  'imitation',
+  'substitute',
+  'mix',
+  'powder',
+  'dehydrated',
+  'concentrate',
+  'low',
+  'reduced',
+  'free',
+  'fortified',
+  'unenriched',
+  'imported',
+  'unheated',
+  'unprepared',
+  'purchased',
+  'glucose',
+  'stabilized',
+  'unsalted',
+  'evaporated',
+  'sodium',
+  'lite',
+  'light',
+  'diet',
+  'organic',
+]);
+
+/** Describing words of food-table names that do not make a food a different variety. */
+const FILLER = new Set(
+  (
+    'with and or added vitamin vitamins per ounce grams includes such as type types fluid enriched ' +
+    'commercially prepared commercial regular ready-to-serve ready-to-eat drained solids liquids ' +
+    'without salt all varieties bottled made from in water meat only cooked boiled flesh equal volume'
+  ).split(' '),
+);
+
+/** Forms that are not food as eaten (diaries record what was eaten), unless also "prepared". */
+const NOT_AS_EATEN =
+  /\b(condensed|dry mix|powder|mix|concentrate|undiluted|dehydrated|unprepared|as purchased|uncooked|unheated|dry(?![ -](heat|roasted)))\b/;
+const DECAF = /\b(without caffeine|decaffeinated|caffeine free|no caffeine)\b/;
+
+/** Simple English plural stem that still prefix-matches both forms ("berries" -> "berr"). */
+export function stem(word: string): string {
+  if (word.length <= 3) return word;
+  if (word.endsWith('ies')) return word.slice(0, -3);
+  if (word.endsWith('oes')) return word.slice(0, -2);
+  if (/(ss|us|is)$/.test(word)) return word;
+  if (/(ches|shes|xes|sses)$/.test(word)) return word.slice(0, -2);
+  if (word.endsWith('s')) return word.slice(0, -1);
+  return word;
+}
+
+function words(text: string): string[] {
+  return foldText(text).match(/[\p{L}\p{N}%'-]+/gu) ?? [];
+}
+
+/** Applies the phrase and word synonyms, longest phrase first. */
+function mapSynonyms(tokens: string[]): string[] {
+  const out: string[] = [];
+  for (let i = 0; i < tokens.length;) {
+    let done = false;
+    for (let n = Math.min(4, tokens.length - i); n >= 1; n--) {
+      const phrase = tokens.slice(i, i + n).join(' ');
+      const mapped = DIARY_SYNONYMS[phrase];
+      if (mapped !== undefined && (n > 1 || !STOP.has(phrase))) {
+        out.push(...mapped.split(' ').filter(Boolean));
+        i += n;
+        done = true;
+        break;
+      }
+    }
+    if (!done) {
+      out.push(tokens[i] as string);
+      i++;
+    }
+  }
+  return out;
+}
+
+/** Prepares a diary phrase (quantity already taken out) for search and scoring. */
+export function prepareQuery(text: string): PreparedQuery {
+  const raw = words(text).map((w) => w.replace(/^'+|'+$/g, ''));
+  // "with" joins a second food ("toast with margarine"): the head food is before it.
+  const withAt = raw.findIndex(
+    (w, i) => i > 0 && (w === 'with' || w === 'con') && !KEEP_WITH.has(raw[i + 1] ?? ''),
+  );
+  const headPart = withAt > 0 ? raw.slice(0, withAt) : raw;
+  const mapped = mapSynonyms(headPart.filter((w) => !/^\d+([.,]\d+)?$/.test(w) || /%$/.test(w)));
+  const content = mapped.filter((w) => w.length > 0 && (!STOP.has(w) || KEEP_WITH.has(w)));
+  const states = new Set<string>();
+  for (const w of content) {
+    if (STATE_WORDS.has(w) || STATE_ALIASES[w]) states.add(w);
+  }
+  const stemmed = [...new Set(content.map(stem))];
+  const head = stemmed.filter((w) => !STATE_WORDS.has(w) && !STATE_ALIASES[w]);
+  return {
+    text,
+    words: stemmed,
+    headWords: head.length > 0 ? head : stemmed,
+    states,
+    rawWords: new Set(raw),
+  };
+}
+
+/** The search texts to try, best first: all words, then without state words, then each head pair and word. */
+export function searchTexts(q: PreparedQuery): string[] {
+  const out: string[] = [];
+  const add = (ws: string[]) => {
+    const t = ws.join(' ').trim();
+    if (t && !out.includes(t)) out.push(t);
+  };
+  add(q.words);
+  add(q.headWords);
+  const h = q.headWords;
+  if (h.length > 2) for (let i = 0; i < h.length; i++) add(h.filter((_, j) => j !== i));
+  if (h.length > 1) for (const w of h) if (w.length >= 3) add([w]);
+  return out.slice(0, 8);
+}
+
+function nameWords(name: string): string[] {
+  return words(name).map((w) => w.replace(/^'+|'+$/g, ''));
+}
+
+/** Brand-like phrases of a name: runs of words written in capitals ("TACO BELL", "KELLOGG'S"). */
+function brandPhrases(name: string): string[][] {
+  return (name.match(/\b[A-Z][A-Z'&.-]+(?:\s+[A-Z][A-Z'&.-]+)*\b/g) ?? [])
+    .filter((p) => p.replace(/[^A-Z]/g, '').length >= 3)
+    .map((p) => p.split(/\s+/).map((t) => foldText(t).replace(/'s$/, '').replace(/'/g, '')));
+}
+
+const COOKED_FAMILY =
+  /\b(cooked|boiled|roasted|baked|broiled|grilled|stewed|steamed|fried|braised|pan-fried|heat|toasted|scrambled|poached|microwaved|prepared)\b/;
+
+/** 1 when a name word is the query word (or its plural), 0.5 for a longer word it starts, else 0. */
+function wordMatch(q: string, nameWord: string): number {
+  if (nameWord === q || stem(nameWord) === q || stem(nameWord) === stem(q)) return 1;
+  if (q.length >= 4 && nameWord.startsWith(q)) return 0.5;
+  return 0;
+}
+
+function matchesWord(q: string, nameWord: string): boolean {
+  return wordMatch(q, nameWord) === 1;
+}
+
+/** Leading category words of food-table names ("Beverages, tea, ..."): the head is what follows. */
+const CATEGORY_HEADS = new Set([
+  'beverages',
+  'beverage',
+  'alcoholic beverage',
+  'alcoholic beverages',
+  'carbonated beverage',
+  'snacks',
+  'candies',
+  'cereals',
+  'cereals ready-to-eat',
+  'fast foods',
+  'nuts',
+  'seeds',
+  'fish',
+  'crustaceans',
+  'mollusks',
+  'salad dressing',
+  'sauce',
+  'soup',
+  'spices',
+  'sweeteners',
+]);
+
+/** Generic-average wording in food-table names: the prototype of a food, not a special one. */
+const PROTOTYPE =
+  /\b(all types|all commercial varieties|year round average|mixed species|regular|plain|commercially prepared|commercial|all grades|all varieties|all flavors|salad or cooking)\b/g;
+
+/** Groups of special foods a diary rarely means unless it names them. */
+const SPECIAL_GROUPS = new Set([
+  'American Indian/Alaska Native Foods',
+  'Baby Foods',
+  'Restaurant Foods',
+]);
+
+/**
+ * Scores one food for a prepared query (higher is better): coverage of the query words dominates;
+ * then the head of the name, fewer unrelated words, the plain generic food, the usual state.
+ */
+export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
+  const folded = foldText(food.name);
+  const nw = nameWords(food.name);
+  // Words in brackets only clarify ("(includes soft bread crumbs)"): they count as filler.
+  const bracketed = new Set(nameWords((folded.match(/\([^)]*\)/g) ?? []).join(' ')));
+  const rawSegments = food.name.split(/[,;]/);
+  let segments = rawSegments.map((s) => nameWords(s));
+  // "Beverages, tea, black" has its head after the category word.
+  if (segments.length > 1 && CATEGORY_HEADS.has(foldText(rawSegments[0] ?? '').trim())) {
+    const category = segments[0] ?? [];
+    if (!q.words.some((w) => category.some((n) => matchesWord(w, n)))) segments = segments.slice(1);
+  }
+  const first = segments[0] ?? [];
+  const measureWords = nameWords((food.portions ?? []).map((p) => p.description).join(' '));
+  const brandWords = new Set(brandPhrases(food.name).flat());
+  let credit = 0;
+  for (const w of q.words) {
+    let c = Math.max(0, ...nw.map((n) => wordMatch(w, n)));
+    // A diary word found only in a brand ("taco" in "TACO BELL, Nachos") counts half.
+    if (c === 1 && !nw.some((n) => wordMatch(w, n) === 1 && !brandWords.has(n))) c = 0.5;
+    const aliases = STATE_ALIASES[w];
+    if (c < 1 && aliases && aliases.some((a) => folded.includes(a))) c = 1;
+    // A word of the food's own measures ("fillet", "thigh") counts half.
+    if (c < 0.5 && measureWords.some((n) => wordMatch(w, n) === 1)) c = 0.5;
+    credit += c;
+  }
+  const coverage = q.words.length === 0 ? 0 : credit / q.words.length;
+  let score = coverage * 100;
+  // The diary's own word spelled exactly as in the name ("almonds" in "Nuts, almonds").
+  for (const r of q.rawWords) if (r.length > 2 && nw.includes(r)) score += 3;
+  if (food.group !== null && SPECIAL_GROUPS.has(food.group)) score -= 12;
+  const prototypes = folded.match(PROTOTYPE) ?? [];
+  score += Math.min(2, prototypes.length) * 2;
+  // The name's head (before the first comma) holds a query word, and is covered by the query.
+  const headHits = first.filter((n) => q.words.some((w) => matchesWord(w, n))).length;
+  if (headHits > 0) score += 12;
+  if (first.length > 0 && headHits === first.length) score += 6;
+  // The earliest segments should carry the query words: reward word position.
+  let positionBonus = 0;
+  for (const w of q.words) {
+    const seg = segments.findIndex((s) => s.some((n) => matchesWord(w, n)));
+    if (seg >= 0) positionBonus += Math.max(0, 4 - seg);
+  }
+  score += positionBonus;
+  // Unrelated words: a plainer food has fewer.
+  const protoWords = new Set(prototypes.flatMap((p) => p.split(' ')));
+  const extra = nw.filter(
+    (n) => !q.words.some((w) => matchesWord(w, n)) && n.length > 1 && !protoWords.has(n),
+  );
+  for (const n of extra) {
+    score -= FILLER.has(n) || bracketed.has(n) || /^\d/.test(n) ? 0.3 : 1.6;
+    // Special products unless asked for.
+    if (SPECIAL_WORDS.has(n)) score -= 4;
+  }
+  const said = (re: RegExp) => re.test(foldText(q.text));
+  if (/flavou?r/.test(folded) && !said(/flavou?r/)) score -= 4;
+  if (/without added vitamin/.test(folded)) score -= 3;
+  // "without X" marks the special variant ("Butter, without salt"), except salt in cooked foods below.
+  if (/\bwithout\b/.test(folded) && !said(/without|sin\b|unsalted|no salt/)) score -= 1.5;
+  // Brands: a plain generic food first unless a brand is named (all words of it).
+  const phrases = brandPhrases(food.name);
+  const owner = food.brandOwner ? words(food.brandOwner)[0] : undefined;
+  if (owner) phrases.push([owner]);
+  const named = (t: string) =>
+    q.rawWords.has(t) || q.rawWords.has(`${t}s`) || q.rawWords.has(t.replace(/s$/, ''));
+  const brandNamed = phrases.some((ph) => ph.every(named));
+  if (brandNamed) score += 15;
+  else if (food.kind === 'branded' || phrases.length > 0) score -= 10;
+  if (/^(fast foods|restaurant|school lunch)/.test(folded) && !brandNamed) score -= 2;
+  // State: what the diary said, else the usual state for the kind of food.
+  const nameStates = nw.filter((n) => STATE_WORDS.has(n));
+  const cookedInName = COOKED_FAMILY.test(folded);
+  if (q.states.size > 0) {
+    let cookedAsked = false;
+    for (const st of q.states) {
+      const wanted = STATE_ALIASES[st] ?? [st];
+      if (wanted.some((x) => folded.includes(x))) score += 8;
+      if (st !== 'raw' && st !== 'canned' && st !== 'frozen' && st !== 'dried' && st !== 'dry')
+        cookedAsked = true;
+    }
+    if (cookedAsked && nameStates.includes('raw')) score -= 8;
+  } else {
+    const cookedUsual =
+      (food.group !== null && USUALLY_COOKED_GROUPS.has(food.group)) ||
+      q.headWords.some((w) => USUALLY_COOKED_WORDS.has(w));
+    if (cookedUsual) {
+      if (cookedInName) score += 6;
+      if (nameStates.includes('raw')) score -= 6;
+    } else {
+      if (nameStates.includes('raw')) score += 3;
+      if (cookedInName && !/prepared|ready-to/.test(folded)) score -= 3;
+    }
+    for (const st of ['canned', 'frozen', 'dried', 'smoked', 'microwaved'])
+      if (nameStates.includes(st)) score -= 3;
+  }
+  if (/\b(fried|breaded|batter|battered)\b/.test(folded) && !said(/fri|bread|batter|frit/))
+    score -= 3;
+  if (/\b(double|triple|jumbo)\b/.test(folded) && !said(/double|triple|jumbo/)) score -= 4;
+  if (NOT_AS_EATEN.test(folded) && !/prepared|cooked/.test(folded) && !said(NOT_AS_EATEN))
+    score -= 5;
+  if (DECAF.test(folded) && !said(/decaf|caffeine/)) score -= 3;
+  // Cooked vegetables and legumes are tabled without salt; "with salt" entries are derived from them.
+  if (cookedInName && /\bwithout (added )?salt\b/.test(folded) && !said(/\bsalt/)) score += 3;
+  // Foods with more household measures in the table are commonly eaten ones.
+  score += Math.min(8, food.portions?.length ?? 0) * PORTION_WEIGHT;
+  return { food, score, coverage };
+}
+
+const PORTION_WEIGHT = 2.5;
+
+/** Ranks foods for a query, best first (ties by shorter name, then id). */
+export function rankFoods<F extends ScorableFood>(
+  q: PreparedQuery,
+  foods: readonly F[],
+): ScoredFood<F>[] {
+  return foods
+    .map((f) => scoreFood(q, f) as ScoredFood<F>)
+    .sort(
+      (a, b) =>
+        b.score - a.score || a.food.name.length - b.food.name.length || a.food.id - b.food.id,
+    );
+}
+
+/**
+ * Confidence of the best match, 0-1: its word coverage, lowered when the runner-up scores
+ * close to it (a near tie is a guess between two foods).
+ */
+export function matchConfidence(best: ScoredFood, runnerUp: ScoredFood | undefined): number {
+  const margin = runnerUp ? best.score - runnerUp.score : 20;
+  const separation = Math.min(1, Math.max(0, margin) / 20);
+  const c = best.coverage * (0.55 + 0.45 * separation);
+  return Math.round(c * 100) / 100;
+}
+
+/** Below this coverage the best food is not offered as a match: the entry is unmatched. */
+export const MIN_MATCH_COVERAGE = 0.5;
+
+/** The key a remembered match is stored under: folded words of the food text, in order. */
+export function memoryKey(foodText: string): string {
+  return words(foodText).join(' ').slice(0, 200);
+}

@@ -1,0 +1,128 @@
+import type { Food } from '../foods/food.js';
+import {
+  MIN_MATCH_COVERAGE,
+  matchConfidence,
+  memoryKey,
+  prepareQuery,
+  rankFoods,
+  searchTexts,
+  type ScoredFood,
+} from './matcher.js';
+
+/** The food-table access the matcher needs (FoodService + FoodRepository satisfy it). */
+export interface FoodFinder {
+  search(q: { q: string; limit: number }): Promise<Food[]>;
+  findIdsByCode(code: string): Promise<number[]>;
+  getFoods(ids: readonly number[]): Promise<Map<number, Food>>;
+}
+
+/** The clinic's remembered matches: diary phrase key -> food id. */
+export interface MatchMemory {
+  lookup(keys: readonly string[]): Promise<Map<string, number>>;
+}
+
+export type MatchMethod = 'barcode' | 'remembered' | 'text' | 'none';
+
+export interface Candidate {
+  foodId: number;
+  name: string;
+  confidence: number;
+}
+
+export interface EntryMatch {
+  food: Food | null;
+  method: MatchMethod;
+  confidence: number;
+  /** Runner-up foods, best first (for the dietitian to pick from). */
+  candidates: Candidate[];
+  /** Why the match is what it is, when that needs saying (barcode not found, weak match). */
+  notes: string[];
+}
+
+const SEARCH_LIMIT = 40;
+const RUNNERS_UP = 4;
+
+/**
+ * Matches diary entries to foods: barcode first, then the clinic's remembered choice for the same
+ * words, then the food search scored by the diary scorer. Results are cached per phrase, so a
+ * diary that repeats a food costs one search.
+ */
+export class DiaryMatcher {
+  private readonly cache = new Map<string, Promise<EntryMatch>>();
+
+  constructor(
+    private readonly foods: FoodFinder,
+    private readonly memory: MatchMemory | null = null,
+  ) {}
+
+  async match(entry: { foodText: string; barcode: string | null }): Promise<EntryMatch> {
+    const key = `${entry.barcode ?? ''}|${memoryKey(entry.foodText)}`;
+    let hit = this.cache.get(key);
+    if (!hit) {
+      hit = this.matchUncached(entry);
+      this.cache.set(key, hit);
+    }
+    return hit;
+  }
+
+  private async matchUncached(entry: {
+    foodText: string;
+    barcode: string | null;
+  }): Promise<EntryMatch> {
+    const notes: string[] = [];
+    if (entry.barcode) {
+      const ids = await this.foods.findIdsByCode(entry.barcode);
+      const found = await this.foods.getFoods(ids.slice(0, 1));
+      const food = ids[0] === undefined ? undefined : found.get(ids[0]);
+      if (food) return { food, method: 'barcode', confidence: 1, candidates: [], notes };
+      notes.push(`barcode ${entry.barcode} is not in the food tables; matched by name`);
+    }
+    const key = memoryKey(entry.foodText);
+    if (this.memory && key) {
+      const remembered = (await this.memory.lookup([key])).get(key);
+      if (remembered !== undefined) {
+        const food = (await this.foods.getFoods([remembered])).get(remembered);
+        if (food) {
+          notes.push('matched as the clinic confirmed before for the same words');
+          return { food, method: 'remembered', confidence: 1, candidates: [], notes };
+        }
+      }
+    }
+    const q = prepareQuery(entry.foodText);
+    if (q.words.length === 0) {
+      notes.push('no food words to search for');
+      return { food: null, method: 'none', confidence: 0, candidates: [], notes };
+    }
+    const seen = new Map<number, Food>();
+    let best: ScoredFood<Food>[] = [];
+    for (const text of searchTexts(q)) {
+      const found = await this.foods.search({ q: text, limit: SEARCH_LIMIT });
+      for (const f of found) seen.set(f.id, f);
+      best = rankFoods(q, [...seen.values()]);
+      // Stop once every query word is covered by the best food.
+      if (best[0] && best[0].coverage >= 1) break;
+    }
+    const top = best[0];
+    const candidates = best.slice(top ? 1 : 0, RUNNERS_UP + 1).map((s, i, arr) => ({
+      foodId: s.food.id,
+      name: s.food.name,
+      confidence: matchConfidence(s, arr[i + 1]),
+    }));
+    if (!top || top.coverage < MIN_MATCH_COVERAGE) {
+      notes.push(
+        top
+          ? `no food name covers enough of '${entry.foodText.slice(0, 80)}'`
+          : `no food found for '${entry.foodText.slice(0, 80)}'`,
+      );
+      const all = best.slice(0, RUNNERS_UP).map((s, i, arr) => ({
+        foodId: s.food.id,
+        name: s.food.name,
+        confidence: matchConfidence(s, arr[i + 1]),
+      }));
+      return { food: null, method: 'none', confidence: 0, candidates: all, notes };
+    }
+    const confidence = matchConfidence(top, best[1]);
+    if (confidence < 0.6) notes.push('weak match: check the food');
+    return { food: top.food, method: 'text', confidence, candidates, notes };
+  }
+}
