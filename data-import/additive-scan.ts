@@ -1,13 +1,19 @@
+import {
+  ADDITIVE_CATALOGUE_VERSION,
+  analyzeIngredients,
+} from '../src/additives/ingredient-parser.js';
+
 /**
- * The phosphate-additive scan of an ingredient statement, stored with each food that has one.
- *
- * HOOK: waiting for `src/additives/ingredient-parser.ts` (analyzeIngredients and
- * ADDITIVE_CATALOGUE_VERSION). Until that module lands this returns null, so foods are stored
- * with additive_scan = NULL ("not scanned"), never with an empty "nothing found" result.
+ * The phosphate-additive scan of an ingredient statement, stored with each food that has one:
+ * `JSON.stringify(analyzeIngredients(text, lang))` and the catalogue version it was made with
+ * (so `ingredients rescan` can redo it when the catalogue changes).
  */
 export function scanIngredients(
-  _text: string,
-  _language: string | null,
-): { scan: string; version: string } | null {
-  return null;
+  text: string,
+  language: string | null,
+): { scan: string; version: string } {
+  return {
+    scan: JSON.stringify(analyzeIngredients(text, language)),
+    version: ADDITIVE_CATALOGUE_VERSION,
+  };
 }

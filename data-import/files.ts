@@ -1,7 +1,7 @@
 import { createReadStream, type Stats } from 'node:fs';
 import { readdir, stat } from 'node:fs/promises';
 import { basename, join, relative } from 'node:path';
-import type { Readable } from 'node:stream';
+import { PassThrough, type Readable } from 'node:stream';
 import { createGunzip } from 'node:zlib';
 import yauzl from 'yauzl';
 import { ImportCodes, structural } from './issues.js';
@@ -92,7 +92,13 @@ function openZip(path: string): Promise<FileSet> {
             size: entry.uncompressedSize,
             open: () =>
               new Promise<Readable>((res, rej) =>
-                zip.openReadStream(entry, (e, s) => (e || !s ? rej(e) : res(s))),
+                zip.openReadStream(entry, (e, s) => {
+                  if (e || !s) return rej(e ?? new Error('no stream'));
+                  // yauzl's stream only moves in flowing mode: pipe it so async iteration works.
+                  const out = new PassThrough({ highWaterMark: 1 << 20 });
+                  s.on('error', (x: Error) => out.destroy(x));
+                  res(s.pipe(out));
+                }),
               ),
           });
         }
