@@ -19,7 +19,7 @@ export interface RenderedPdf {
   notdefRuns: number;
 }
 
-const MARGIN = 36;
+const MARGIN = 30;
 const BAND = 64;
 
 const style = (
@@ -35,10 +35,14 @@ const style = (
 function drawBand(flow: PdfFlow, vm: HandoutViewModel): void {
   const doc = flow.doc;
   doc.rect(0, 0, doc.page.width, BAND).fill(THEME.brand);
-  const half = flow.width * 0.58;
-  const title =
-    flow.wrap(vm.strings.title, style(TYPE.title, 'bold', THEME.onBrand), half)[0] ?? '';
-  flow.linesAt([title], style(TYPE.title, 'bold', THEME.onBrand), 0, 14, half);
+  const half = flow.width * 0.6;
+  // The title never gets cut: the largest size that fits one line, else two lines at 16 pt.
+  let size: number = TYPE.title;
+  while (size > 16 && flow.engine.widthOf(vm.strings.title, style(size, 'bold')) > half) size -= 2;
+  const titleStyle = style(size, 'bold', THEME.onBrand);
+  const lines = flow.wrap(vm.strings.title, titleStyle, half).slice(0, 2);
+  const titleTop = (BAND - lines.length * flow.lineHeight(size)) / 2;
+  flow.linesAt(lines, titleStyle, 0, titleTop, half);
   const right = [vm.header.patientLabel, vm.header.dateText];
   const rw = flow.width - half - 10;
   flow.linesAt(
@@ -204,7 +208,7 @@ export async function renderHandoutPdf(
   const flow = new PdfFlow(doc as unknown as FlowSurface, vm.script, vm.direction, {
     marginPt: MARGIN,
     headerPt: BAND - MARGIN + 16,
-    footerPt: 40,
+    footerPt: 36,
     onNewPage: (f) => drawBand(f, vm),
   });
   flow.newPage();
@@ -273,9 +277,11 @@ export async function renderHandoutPdf(
       }),
     );
     const s = style(TYPE.small, 'regular', THEME.muted);
-    flow.linesAt([label], s, 0, y + 2, flow.width, 'end');
+    const labelW = flow.engine.widthOf(label, s) + 4;
+    flow.linesAt([label], s, flow.width - labelW, y + 2, labelW, 'end');
     const notice = vm.review.notice ? `phosledger \u00b7 ${vm.review.notice}` : 'phosledger';
-    flow.linesAt([flow.wrap(notice, s, flow.width * 0.7)[0] ?? ''], s, 0, y + 2, flow.width * 0.7);
+    const noticeW = flow.width - labelW - 12;
+    flow.linesAt(flow.wrap(notice, s, noticeW).slice(0, 2), s, 0, y + 2, noticeW);
   }
   doc.flushPages();
   const bytes = await finishPdf(doc);

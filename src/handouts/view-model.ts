@@ -31,8 +31,7 @@ export interface ChartVm {
     label: string;
     absorbableMg: MgRange;
     totalMg: number;
-    absorbableText: string;
-    totalText: string;
+    valueText: string;
   };
   /** The day's phosphorus target in mg (total phosphorus), when the plan has one. */
   target: { mg: number; text: string } | null;
@@ -250,10 +249,8 @@ export function buildHandoutViewModel(
             ? {
                 units,
                 dose: t('binder.dose', { count: units, binder: binderName }),
-                timing: [
-                  t('binder.timing.withMeal'),
-                  t(BINDER_HOW[ingredient] ?? 'binder.timing.asLabel'),
-                ],
+                // How to take it (chew or swallow) is said once, in the binder section.
+                timing: [t('binder.timing.withMeal')],
               }
             : { units: 0, dose: t('binder.none'), timing: [] };
       }
@@ -292,14 +289,16 @@ export function buildHandoutViewModel(
         rows: occasions.map((o) => ({
           label: o.name,
           absorbableMg: o.absorbableMg,
-          valueText: mg(o.absorbableMg.typical),
+          valueText: t('chart.value', { value: mg(o.absorbableMg.typical) }),
         })),
         whole: {
           label: t('chart.wholeDay'),
           absorbableMg: { low: a.low, typical: a.typical, high: a.high },
           totalMg: day.nutrients.phosphorusMg,
-          absorbableText: mg(a.typical),
-          totalText: mg(day.nutrients.phosphorusMg),
+          valueText: t('chart.wholeValue', {
+            absorbed: mg(a.typical),
+            total: mg(day.nutrients.phosphorusMg),
+          }),
         },
         target:
           targetMg === null

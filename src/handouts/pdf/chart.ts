@@ -14,15 +14,22 @@ export interface AbsorbableChartData {
     label: string;
     absorbableMg: { low: number; typical: number; high: number };
     totalMg: number;
-    absorbableText: string;
-    totalText: string;
+    /** e.g. "306 of 510 mg": absorbable of total, in the reader's language. */
+    valueText: string;
   };
   target: { mg: number; text: string } | null;
   legend: { absorbed: string; inFood: string; range: string };
 }
 
 const BAR_H = 12;
-const ROW_H = 21;
+const ROW_H = 19;
+
+function legendHeight(flow: PdfFlow, data: AbsorbableChartData): number {
+  const small: TextStyle = { sizePt: TYPE.small, weight: 'regular', color: THEME.ink };
+  const items = [data.legend.absorbed, data.legend.inFood, data.legend.range];
+  const w = items.reduce((s, t) => s + 34 + flow.engine.widthOf(t, small), 0);
+  return (w <= flow.width ? 1 : 3) * flow.lineHeight(TYPE.small);
+}
 
 /** Height the chart needs at the flow's width. */
 export function chartHeight(flow: PdfFlow, data: AbsorbableChartData): number {
@@ -32,9 +39,7 @@ export function chartHeight(flow: PdfFlow, data: AbsorbableChartData): number {
     flow.width,
   );
   const targetH = data.target ? flow.lineHeight(TYPE.small) : 0;
-  return (
-    titleH + 6 + (data.rows.length + 1) * ROW_H + 8 + targetH + flow.lineHeight(TYPE.small) * 2 + 4
-  );
+  return titleH + 6 + (data.rows.length + 1) * ROW_H + 8 + targetH + legendHeight(flow, data) + 4;
 }
 
 /**
@@ -112,7 +117,7 @@ export function drawAbsorbableChart(flow: PdfFlow, data: AbsorbableChartData): v
     const w = scale(row.absorbableMg.typical);
     doc.rect(flow.phys(barX, w), y, w, BAR_H).fill(THEME.brand);
     range(y, row.absorbableMg.low, row.absorbableMg.high);
-    value(`${row.valueText} mg`, y, Math.max(row.absorbableMg.high, row.absorbableMg.typical));
+    value(row.valueText, y, Math.max(row.absorbableMg.high, row.absorbableMg.typical));
   });
 
   const y = top + data.rows.length * ROW_H + 6;
@@ -123,12 +128,7 @@ export function drawAbsorbableChart(flow: PdfFlow, data: AbsorbableChartData): v
   const absW = scale(data.whole.absorbableMg.typical);
   doc.rect(flow.phys(barX, absW), y, absW, BAR_H).fill(THEME.brand);
   range(y, data.whole.absorbableMg.low, data.whole.absorbableMg.high);
-  value(
-    `${data.whole.absorbableText} / ${data.whole.totalText} mg`,
-    y,
-    Math.max(data.whole.totalMg, data.whole.absorbableMg.high),
-    bold,
-  );
+  value(data.whole.valueText, y, Math.max(data.whole.totalMg, data.whole.absorbableMg.high), bold);
   flow.y = top + (data.rows.length + 1) * ROW_H + 8;
 
   if (data.target) {
@@ -143,13 +143,35 @@ export function drawAbsorbableChart(flow: PdfFlow, data: AbsorbableChartData): v
     );
   }
 
-  // Legend: swatches then words.
+  // Legend in one row when it fits (swatch or range mark, then its words), else one per line.
   const lh = flow.lineHeight(TYPE.small);
-  const swatch = (color: string, dy: number) =>
-    doc.rect(flow.phys(barX, 14), flow.y + dy + lh / 2 - 6, 14, 12).fill(color);
-  swatch(THEME.brand, 0);
-  swatch(THEME.brandLight, lh);
-  const legend = `${data.legend.absorbed}\n${data.legend.inFood}`;
-  flow.linesAt(legend.split('\n'), small, barX + 20, flow.y, barW + valueW - 20);
-  flow.y += 2 * lh + 4;
+  const items = [data.legend.absorbed, data.legend.inFood, data.legend.range];
+  const widths = items.map((t) => 20 + flow.engine.widthOf(t, small) + 14);
+  const oneRow = widths.reduce((a, b) => a + b, 0) <= flow.width;
+  let lx = 0;
+  let ly = flow.y;
+  items.forEach((text, i) => {
+    const mid = ly + lh / 2;
+    if (i < 2) {
+      doc.rect(flow.phys(lx, 14), mid - 6, 14, 12).fill(i === 0 ? THEME.brand : THEME.brandLight);
+    } else {
+      doc.lineWidth(1.5).strokeColor(THEME.ink);
+      doc
+        .moveTo(flow.phys(lx), mid)
+        .lineTo(flow.phys(lx + 14), mid)
+        .stroke();
+      doc
+        .moveTo(flow.phys(lx), mid - 4)
+        .lineTo(flow.phys(lx), mid + 4)
+        .stroke();
+      doc
+        .moveTo(flow.phys(lx + 14), mid - 4)
+        .lineTo(flow.phys(lx + 14), mid + 4)
+        .stroke();
+    }
+    flow.linesAt([text], small, lx + 20, ly, (widths[i] as number) - 20);
+    if (oneRow) lx += widths[i] as number;
+    else ly += lh;
+  });
+  flow.y = (oneRow ? ly + lh : ly) + 4;
 }

@@ -40,13 +40,52 @@ export interface LoadedFont {
 
 const loaded = new Map<string, LoadedFont>();
 
+const LAYOUT_CACHE_LIMIT = 50_000;
+
+/**
+ * fontkit builds a new shaping plan on every layout call (milliseconds per word for Devanagari),
+ * and PDFKit lays out again for every document. This proxy remembers each string's glyph run for
+ * the process. PDFKit scales the positions it gets in place, so every caller receives fresh
+ * copies of the position records; the glyph objects themselves are shared, as fontkit shares them.
+ */
+function memoizeLayout(font: fontkit.Font): fontkit.Font {
+  const cache = new Map<string, fontkit.GlyphRun>();
+  const layout = (text: string, features?: unknown, ...rest: unknown[]) => {
+    const key = `${JSON.stringify(features ?? null)}|${rest.join('|')}|${text}`;
+    let run = cache.get(key);
+    if (!run) {
+      run = (font.layout as (...a: unknown[]) => fontkit.GlyphRun).call(
+        font,
+        text,
+        features,
+        ...rest,
+      );
+      if (cache.size >= LAYOUT_CACHE_LIMIT) cache.clear();
+      cache.set(key, run);
+    }
+    return {
+      ...run,
+      glyphs: run.glyphs,
+      positions: run.positions.map((p) => ({ ...p })),
+      advanceWidth: run.advanceWidth,
+    } as fontkit.GlyphRun;
+  };
+  return new Proxy(font, {
+    get(target, prop, receiver) {
+      if (prop === 'layout') return layout;
+      const value = Reflect.get(target, prop, receiver);
+      return typeof value === 'function' ? value.bind(target) : value;
+    },
+  });
+}
+
 /** The parsed font for a family and weight: read and parsed once per process, then reused. */
 export function getFont(family: FontFamily, weight: FontWeight): LoadedFont {
   const key = `${family}-${weight}`;
   const cached = loaded.get(key);
   if (cached) return cached;
   const buffer = readFileSync(require.resolve(FILES[family][weight]));
-  const font = fontkit.create(buffer) as fontkit.Font;
+  const font = memoizeLayout(fontkit.create(buffer) as fontkit.Font);
   const coverage = new Map<number, boolean>();
   const entry: LoadedFont = {
     key,
@@ -69,7 +108,10 @@ export function getFont(family: FontFamily, weight: FontWeight): LoadedFont {
 /** Parses every font now (at start-up or in a benchmark warm-up) instead of on first use. */
 export function preloadFonts(): void {
   for (const family of FONT_FAMILIES) {
-    for (const weight of ['regular', 'bold'] as const) getFont(family, weight);
+    for (const weight of ['regular', 'bold'] as const) {
+      // A first layout loads the shaping tables, which is most of the first-use cost.
+      getFont(family, weight).font.layout('0', []);
+    }
   }
 }
 
