@@ -23,6 +23,8 @@ export const thresholdsSchema = z
     highLoadOccasionMg: z.number().min(0).max(5000),
     /** A food at or over this phosphorus-to-protein ratio (mg/g) is flagged. */
     highRatioMgPerG: z.number().positive().max(200),
+    /** Only foods with at least this protein (g/100 g) get the high-ratio flag (fruit and vegetables with traces of protein do not). */
+    highRatioMinProteinGPer100g: z.number().min(0).max(50).default(2.5),
     /** A swap must carry at most this share of the original's absorbable phosphorus per g protein (or per portion). */
     swapMaxShare: z.number().positive().max(1),
     /** How many foods the summary lists as top phosphorus contributors. */
@@ -36,6 +38,7 @@ export const DEFAULT_THRESHOLDS: Thresholds = {
   highLoadOccasionMg: 250, // common practice, no source
   // Noori N et al., CJASN 2010;5(4):683-692: >= 16 mg/g had death HR 1.99 vs 12-<14 mg/g in HD patients
   highRatioMgPerG: 16,
+  highRatioMinProteinGPer100g: 2.5, // common practice, no source: milk (about 3.3 g) is flagged, fruit is not
   swapMaxShare: 0.8, // "clearly less" = at least 20% less: common practice, no source
   topContributors: 5, // common practice, no source
 };
@@ -46,6 +49,7 @@ export const THRESHOLD_SOURCES: Record<keyof Thresholds, string> = {
   highLoadOccasionMg: 'common practice, no source; set by the clinic',
   highRatioMgPerG:
     'Noori N et al., CJASN 2010;5(4):683-692: dietary P:protein >= 16 mg/g, death HR 1.99 vs 12-<14 mg/g (hemodialysis)',
+  highRatioMinProteinGPer100g: 'common practice, no source',
   swapMaxShare: 'common practice, no source',
   topContributors: 'common practice, no source',
 };

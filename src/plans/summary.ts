@@ -236,7 +236,9 @@ export function summarizePlan(
         profile,
         additive: profile.additiveLikely || profile.additiveEvidentFromName,
         highRatio:
-          profile.ratioMgPerG !== null && profile.ratioMgPerG >= thresholds.highRatioMgPerG,
+          profile.ratioMgPerG !== null &&
+          profile.ratioMgPerG >= thresholds.highRatioMgPerG &&
+          (food.per100g.proteinG ?? 0) >= thresholds.highRatioMinProteinGPer100g,
       };
       factsCache.set(foodId, f);
     }

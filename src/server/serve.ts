@@ -9,6 +9,7 @@ import {
   type TlsFiles,
 } from '../auth/transport.js';
 import { importDefaultFoodTable } from '../../data-import/first-start.js';
+import { seedDemoData } from '../plans/demo-seed.js';
 import { buildApp } from './app.js';
 
 export interface ServeIo {
@@ -73,3 +74,8 @@ export function safeLogger(level: string) {
     },
   };
 }
+
+// Invented demo clinic, patient and plan (skipped by --no-demo / PHOSLEDGER_NO_DEMO=1).
+firstStartSteps.push(async (ctx) => {
+  await seedDemoData(ctx);
+});

@@ -138,7 +138,7 @@ describe('CLI plan list / plan summary (JSON contracts)', () => {
     const s = JSON.parse(summary.out);
     expect(s).toMatchObject({ planId: 1, patientId: 1 });
     expect(s.days.map((d: { label: string }) => d.label)).toEqual(['Day 1', 'Day 2', 'Day 3']);
-    expect(s.days[0].occasions[0].items[0]).toMatchObject({ label: 'chapati (2)', grams: 60 });
+    expect(s.days[0].occasions[0].items[0]).toMatchObject({ label: 'chapati (3)', grams: 90 });
     expect(s.binders.prescription).toMatchObject({ ingredient: 'calcium-acetate', units: 6 });
     // calcium acetate 667 mg: 6 x 169.01 = 1,014.1 mg elemental calcium a day (formula, IUPAC weights)
     expect(s.binders.elementalCalciumMgPerDay).toBeCloseTo(1014.1, 1);
