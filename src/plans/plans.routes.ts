@@ -186,7 +186,10 @@ export const planRoutes: FastifyPluginAsync<{ db: Db; clock: Clock }> = async (a
         querystring: versionQuery,
       },
     },
-    async (req) => service.getSummary(req.params.id, req.query.version),
+    async (req, reply) =>
+      reply
+        .type('application/json')
+        .send(await service.getSummaryJson(req.params.id, req.query.version)),
   );
 
   api.get(

@@ -47,7 +47,7 @@ const SUMMARY_CACHE_SIZE = 200;
 export class PlanService {
   private readonly repo: PlanRepository;
   private readonly patients: PatientRepository;
-  private readonly summaries = new Map<string, PlanSummary>();
+  private readonly summaries = new Map<string, { summary: PlanSummary; json?: string }>();
 
   constructor(
     private readonly db: Kysely<DB>,
@@ -120,6 +120,17 @@ export class PlanService {
 
   /** The summary of a version, recomputed from what that version froze: the same every time. */
   async getSummary(planId: number, version?: number): Promise<PlanSummary> {
+    return (await this.cachedSummary(planId, version)).summary;
+  }
+
+  /** The summary serialised once per version (the summary endpoint sends it as is). */
+  async getSummaryJson(planId: number, version?: number): Promise<string> {
+    const entry = await this.cachedSummary(planId, version);
+    entry.json ??= JSON.stringify(entry.summary);
+    return entry.json;
+  }
+
+  private async cachedSummary(planId: number, version?: number) {
     const header = await this.header(planId);
     const n = version ?? header.latestVersion;
     const key = `${planId}/${n}`;
@@ -127,13 +138,13 @@ export class PlanService {
     if (hit) return hit;
     const v = await this.repo.version(planId, n);
     if (!v) throw new NotFoundError('plan version', key);
-    const s = summarizeVersion(header, v);
+    const entry: { summary: PlanSummary; json?: string } = { summary: summarizeVersion(header, v) };
     if (this.summaries.size >= SUMMARY_CACHE_SIZE) {
       const oldest = this.summaries.keys().next().value;
       if (oldest !== undefined) this.summaries.delete(oldest);
     }
-    this.summaries.set(key, s);
-    return s;
+    this.summaries.set(key, entry);
+    return entry;
   }
 
   private async prepare(

@@ -1,5 +1,8 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import type { Food } from '../../src/foods/food.js';
+import { FoodRepository } from '../../src/foods/foods.repository.js';
+import { settingsSource } from '../../src/plans/plan-settings-source.js';
+import { PlanService } from '../../src/plans/plans.service.js';
 import { createTestContext, type TestContext } from '../helpers/context.js';
 import { hasSr28, SR28_MISSING } from '../helpers/shared.js';
 import { insertFoods, sr28Foods } from '../helpers/sr28.js';
@@ -405,6 +408,14 @@ describe('patients and plans over HTTP', () => {
         url: `/api/plans/${created.id}/summary?version=1`,
       });
       expect(again.body).toBe(v1);
+      // ... and recomputed from scratch by a fresh service (no cached summary) it is the same
+      const fresh = new PlanService(
+        ctx.db.kysely,
+        ctx.clock,
+        new FoodRepository(ctx.db.kysely),
+        settingsSource(ctx.db),
+      );
+      expect(await fresh.getSummaryJson(created.id, 1)).toBe(v1);
       const versions = (
         await ctx.inject({ method: 'GET', url: `/api/plans/${created.id}/versions` })
       ).json();
