@@ -1,7 +1,7 @@
 import { parse, type CsvError } from 'csv-parse';
 import type { Readable } from 'node:stream';
 import { decodeText } from './decode.js';
-import { ImportCodes, structural, type IssueLog } from './issues.js';
+import { ImportCodes, StructuralError, structural, type IssueLog } from './issues.js';
 
 export interface CsvRow {
   /** Fields by header name (missing trailing fields are ''). */
@@ -53,6 +53,11 @@ export async function* readCsv(stream: Readable, opts: CsvOptions): AsyncGenerat
   });
   parser.on('skip', (e: CsvError) => {
     const line = typeof e.lines === 'number' ? e.lines : null;
+    if (!header) {
+      // The header itself does not parse: most often another separator around quoted names.
+      failure = headerFailure(firstLine, opts, e.message);
+      return;
+    }
     if (e.code === 'CSV_QUOTE_NOT_CLOSED') {
       failure = e; // only ever at the end of the input: the file is cut short
       return;
@@ -60,6 +65,7 @@ export async function* readCsv(stream: Readable, opts: CsvOptions): AsyncGenerat
     issues.skip(file, line, ImportCodes.rowQuote, `${file} line ${line}: ${e.message}`);
   });
   let header: string[] | null = null;
+  let firstLine: string | null = null;
   let rawHeader: string[] = [];
   let index = new Map<string, number>();
   let rows = 0;
@@ -108,6 +114,7 @@ export async function* readCsv(stream: Readable, opts: CsvOptions): AsyncGenerat
 
   for await (const text of decodeText(stream, file, 'utf-8', opts.onBytes)) {
     endsWithNewline = text.endsWith('\n');
+    if (firstLine === null) firstLine = text.split('\n', 1)[0] ?? '';
     parser.write(text);
     if (failure) throw csvFailure(failure, file);
     const batch = take();
@@ -149,7 +156,24 @@ export async function* readCsv(stream: Readable, opts: CsvOptions): AsyncGenerat
   }
 }
 
+function headerFailure(firstLine: string | null, opts: CsvOptions, why: string) {
+  const line = firstLine ?? '';
+  const other = [',', ';', '\t', '|'].find(
+    (d) => d !== opts.delimiter && line.split(d).length > line.split(opts.delimiter).length,
+  );
+  if (other) {
+    return structural(
+      opts.file,
+      1,
+      ImportCodes.delimiter,
+      `${opts.file}: the header is separated by ${delimiterName(other)}, this format uses ${delimiterName(opts.delimiter)}`,
+    );
+  }
+  return structural(opts.file, 1, ImportCodes.columns, `${opts.file} line 1: the header does not parse (${why})`);
+}
+
 function csvFailure(e: Error, file: string) {
+  if (e instanceof StructuralError) return e;
   const err = e as CsvError;
   const line = typeof err.lines === 'number' ? err.lines : null;
   if (err.code === 'CSV_QUOTE_NOT_CLOSED') {

@@ -118,7 +118,23 @@ export async function* decodeText(
   }
   if (pending) {
     checkStart(pending, file, encoding);
-    yield encoding === 'latin1' ? pending.toString('latin1') : decoder.decode(pending);
+    if (encoding === 'latin1') {
+      yield pending.toString('latin1');
+      return;
+    }
+    let text: string;
+    try {
+      text = decoder.decode(pending);
+    } catch {
+      // a file of 1-3 bytes that is not UTF-8: the same structural error as a longer one
+      throw structural(
+        file,
+        1,
+        ImportCodes.encoding,
+        `${file} line 1: not valid UTF-8 (is it Latin-1 or Windows-1252?): save the file as UTF-8 and try again`,
+      );
+    }
+    yield text;
     return;
   }
   if (encoding === 'utf-8') {

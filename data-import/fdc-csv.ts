@@ -335,6 +335,7 @@ function portionText(row: CsvRow, unit: string | undefined): string {
   if (desc && desc !== 'Quantity not specified') return desc;
   const modifier = row.get('modifier').trim();
   const u = unit && unit !== 'undetermined' ? unit : '';
+  if (u && modifier.toLowerCase().startsWith(u.toLowerCase())) return modifier;
   return [u, modifier].filter(Boolean).join(' ') || desc || 'portion';
 }
 

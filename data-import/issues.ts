@@ -46,6 +46,17 @@ export class IssueLog {
   skippedRows = 0;
   readonly notes: string[] = [];
 
+  /** The kept issues by file (in the order files were first seen) and line. */
+  sorted(): ImportIssue[] {
+    const fileOrder = new Map<string, number>();
+    for (const i of this.issues) if (!fileOrder.has(i.file)) fileOrder.set(i.file, fileOrder.size);
+    return [...this.issues].sort(
+      (a, b) =>
+        (fileOrder.get(a.file) ?? 0) - (fileOrder.get(b.file) ?? 0) ||
+        (a.line ?? 0) - (b.line ?? 0),
+    );
+  }
+
   /** Reports a row that is left out. */
   skip(file: string, line: number | null, code: string, message: string): void {
     this.skippedRows++;

@@ -75,7 +75,7 @@ export async function runImport(
       skipped: issues.skippedRows,
       values: counts.values,
       portions: counts.portions,
-      errors: issues.issues,
+      errors: issues.sorted(),
       issueCount: issues.count,
       notes: issues.notes,
     };
@@ -88,7 +88,7 @@ export async function runImport(
       format: meta.format,
       imported: 0,
       skipped: issues.skippedRows,
-      errors: issues.issues,
+      errors: issues.sorted(),
       issueCount: issues.count,
       fatal,
       notes: issues.notes,

@@ -255,8 +255,8 @@ describe('usda-sr28 on the invented mini release (SR28 layout: caret, tilde, CRL
       expect(r.errors.map((e) => [e.file, e.line, e.code])).toEqual([
         ['NUT_DATA.txt', 1, 'PHL_IMPORT_ROW_NEGATIVE'],
         ['NUT_DATA.txt', 2, 'PHL_IMPORT_ROW_NUMBER'],
-        ['NUT_DATA.txt', 13, 'PHL_IMPORT_ROW_UNKNOWN_FOOD'],
         ['NUT_DATA.txt', 12, 'PHL_IMPORT_ROW_DUPLICATE'],
+        ['NUT_DATA.txt', 13, 'PHL_IMPORT_ROW_UNKNOWN_FOOD'],
       ]);
       // The first value stays (P 500 mg, invented), the duplicate 501 is not taken.
       expect(
