@@ -169,7 +169,12 @@ function headerFailure(firstLine: string | null, opts: CsvOptions, why: string) 
       `${opts.file}: the header is separated by ${delimiterName(other)}, this format uses ${delimiterName(opts.delimiter)}`,
     );
   }
-  return structural(opts.file, 1, ImportCodes.columns, `${opts.file} line 1: the header does not parse (${why})`);
+  return structural(
+    opts.file,
+    1,
+    ImportCodes.columns,
+    `${opts.file} line 1: the header does not parse (${why})`,
+  );
 }
 
 function csvFailure(e: Error, file: string) {
