@@ -28,9 +28,14 @@ export const GENERIC_ADDITIVE_RULES: readonly GenericAdditiveRule[] = Object.fre
       `E 338 as the acidulant of colas (${EU_ANNEX_II}, flavoured drinks); soft drinks among the top sources of added P ` +
       '(Fulgoni K, Fulgoni VL, Nutrients 2021;13:2249); Kalantar-Zadeh K et al., CJASN 2010;5:519-530',
     classOverride: 'beverage',
-    matches: (f) =>
-      /\bcola\b|colas\b|pepper-type|pepper type|\bdr\.? pepper/i.test(f.name) &&
-      !/\bkola nut|coca leaf/i.test(f.name),
+    matches: (f) => {
+      // The maker's name ("THE COCA-COLA COMPANY, ...") is not the drink.
+      const name = f.name.replace(/(the )?coca-cola( company| compan\w*)?,?/gi, ' ');
+      return (
+        /\bcolas?\b|pepper-type|pepper type|\bdr\.? pepper/i.test(name) &&
+        !/other than cola|kola nut/i.test(name)
+      );
+    },
   },
   {
     id: 'processed-cheese',
@@ -41,9 +46,9 @@ export const GENERIC_ADDITIVE_RULES: readonly GenericAdditiveRule[] = Object.fre
       'cheese the top source of added P in US adults (Fulgoni 2021)',
     classOverride: 'cheese',
     matches: (f) =>
-      /pasteuri[sz]ed process|process(ed)? cheese|cheese (food|spread|product|sauce|dip)|cheese,? (food|spread|product)|imitation cheese|\bcheez|american cheese|cheese, american/i.test(
+      /pasteuri[sz]ed process|process(ed)? cheese|cheese (food|spread|product|sauce|dip)|cheese,? (food|spread|product)|imitation cheese|american cheese|cheese, american/i.test(
         f.name,
-      ),
+      ) && !/from recipe|homemade|crackers?/i.test(f.name),
   },
   {
     id: 'enhanced-meat',
@@ -67,10 +72,11 @@ export const GENERIC_ADDITIVE_RULES: readonly GenericAdditiveRule[] = Object.fre
     classOverride: 'meat',
     matches: (f) =>
       (f.group === 'Sausages and Luncheon Meats' ||
-        /\bcured\b|luncheon|bologna|frankfurter|hot ?dog|salami|pepperoni|bratwurst|kielbasa|knackwurst|sausage|\bdeli\b|\bspam\b|turkey roll|chicken roll|\bham,? (sliced|chopped|minced|canned)|pastrami|corned beef|liverwurst|braunschweiger|\bnuggets?\b|\bsurimi\b|imitation crab/i.test(
+        /\bcured\b|luncheon|bologna|frankfurter|hot ?dog|bratwurst|kielbasa|knackwurst|sausage|\bdeli\b|\bspam\b|turkey roll|chicken roll|\bham,? (sliced|chopped|minced|canned)|pastrami|corned beef|liverwurst|braunschweiger|(chicken|turkey|fish|meat)\b.*\bnuggets?\b|\bsurimi\b|imitation crab/i.test(
           f.name,
         )) &&
-      !/\bfresh\b/i.test(f.name),
+      !/\bfresh\b/i.test(f.name) &&
+      f.group !== 'Legumes and Legume Products',
   },
   {
     id: 'baking-powder',
@@ -92,8 +98,8 @@ export const GENERIC_ADDITIVE_RULES: readonly GenericAdditiveRule[] = Object.fre
       /\bmix\b|\bmixes\b|\bdough\b|refrigerated|biscuits?\b|pancakes?|waffles?|muffins?|\bcakes?\b|cornbread|doughnuts?|scones?|brownies?|cookies?|quick bread|sweet rolls?|danish/i.test(
         f.name,
       ) &&
-      /Baked Products|Sweets|Breakfast Cereals|Snacks/i.test(f.group ?? 'Baked Products') &&
-      !/\byeast\b/i.test(f.name),
+      /Baked Products|Sweets|Snacks/i.test(f.group ?? 'Baked Products') &&
+      !/\byeast\b|rice cakes?/i.test(f.name),
   },
   {
     id: 'frozen-prepared',
@@ -114,7 +120,9 @@ export const GENERIC_ADDITIVE_RULES: readonly GenericAdditiveRule[] = Object.fre
     description: 'instant puddings and non-dairy creamers are set or stabilised with phosphates',
     source:
       'disodium phosphate / tetrasodium diphosphate in instant puddings and dipotassium phosphate in creamers (from memory)',
-    matches: (f) => /pudding.*instant|instant.*pudding|creamer|whitener/i.test(f.name),
+    matches: (f) =>
+      /pudding.*instant|instant.*pudding|creamer|whitener/i.test(f.name) &&
+      f.group !== 'Fats and Oils',
   },
 ]);
 

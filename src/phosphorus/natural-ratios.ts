@@ -39,9 +39,9 @@ export const NATURAL_RATIOS_MG_PER_G: Record<FoodClass, NaturalRatio> = {
       'whole milk 26.7 and plain whole-milk yogurt 27.4 mg/g (USDA SR28 NDB 01077, 01116; mean computed here)',
   },
   legume: {
-    ratioMgPerG: 19.2,
+    ratioMgPerG: 19.1,
     source:
-      'median of cooked lentils 20.0, chickpeas 19.0, kidney beans 15.9 and raw soybeans 19.3 mg/g ' +
+      'median of cooked lentils 20.0, chickpeas 19.0, kidney beans 15.9 and raw soybeans 19.3 mg/g (median 19.1) ' +
       '(USDA SR28 NDB 16070, 16057, 16028, 16108; computed here)',
   },
   'grain-whole': {
@@ -50,7 +50,7 @@ export const NATURAL_RATIOS_MG_PER_G: Record<FoodClass, NaturalRatio> = {
       'median of whole-grain wheat flour 27.0, oats 31.2, brown rice 41.2 mg/g (USDA SR28 NDB 20080, 08120, 20036; computed here)',
   },
   'grain-refined': {
-    ratioMgPerG: 13.3,
+    ratioMgPerG: 13.2,
     source:
       'mean of white flour 10.5 and cooked white rice 16.0 mg/g (USDA SR28 NDB 20081, 20445; computed here)',
   },
