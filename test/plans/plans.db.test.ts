@@ -454,6 +454,52 @@ describe('patients and plans over HTTP', () => {
     },
   );
 
+  it.skipIf(!hasSr28)(
+    t('swaps: same group, clearly less absorbable P per g protein, best first'),
+    async () => {
+      // Besides this test's foods (cheddar 01009, egg 01123, milk 01077, ...), more SR28 dairy and
+      // egg foods (P mg / protein g per 100 g) and one fruit of another group, as a second source
+      insertFoods(
+        ctx.db,
+        sr28Foods('01012', '01016', '01124', '01026', '01017', '01001', '01256', '09003'),
+        {
+          format: 'usda-sr28',
+          name: 'USDA SR28 (second test subset)',
+          release: 'SR28-test-2',
+        },
+      );
+      const cheddar = f.cheddar;
+      const res = await ctx.inject({ method: 'GET', url: `/api/swaps/${cheddar?.id}` });
+      expect(res.statusCode).toBe(200);
+      const r = res.json();
+      // All are animal foods with the same split here, so shares follow total P / protein:
+      // cheddar 01009 455/22.87 = 19.89 mg/g (the reference)
+      // egg white 01124 15/10.90 = 1.376 -> 0.069; cottage 1% 01016 134/12.39 = 10.82 -> 0.544
+      // Greek yogurt 01256 135/10.19 = 13.25 -> 0.666; cottage creamed 01012 159/11.12 = 14.30 -> 0.719
+      // whole egg 01123 198/12.56 = 15.76 -> 0.792
+      // mozzarella 01026 354/22.17 = 15.97 -> 0.803 > 0.8 (not clearly less); cream cheese 01017 17.4 -> 0.875
+      // butter 01001 (0.85 g protein), milk 01077 (3.15 g < 25% of 22.87 g) and apple 09003 (another
+      // group) are not compared
+      expect(r.basis).toBe('per-g-protein');
+      expect(r.swaps.map((x: { code: string }) => x.code)).toEqual([
+        '01124',
+        '01016',
+        '01256',
+        '01012',
+        '01123',
+      ]);
+      expect(r.swaps.map((x: { shareOfOriginal: number }) => x.shareOfOriginal)).toEqual([
+        0.069, 0.544, 0.666, 0.719, 0.792,
+      ]);
+      const one = await ctx.inject({ method: 'GET', url: `/api/swaps/${cheddar?.id}?limit=1` });
+      expect(one.json().swaps).toHaveLength(1);
+      expect((await ctx.inject({ method: 'GET', url: '/api/swaps/999999' })).statusCode).toBe(404);
+      expect(
+        (await ctx.inject({ method: 'GET', url: `/api/swaps/${cheddar?.id}?limit=6` })).statusCode,
+      ).toBe(400);
+    },
+  );
+
   it('patient and plan routes need a signed-in user', async () => {
     for (const url of ['/api/patients', '/api/plans', '/api/plans/1/summary']) {
       const res = await ctx.app.inject({ method: 'GET', url });
