@@ -1,4 +1,7 @@
+import { phosphorusBench } from './phosphorus.js';
 import { plansBench } from './plans.js';
+import { webBench } from './web.js';
+import { loadBench } from './load.js';
 
 /** One benchmark section; each area adds its own file and registers it here. */
 export interface BenchSection {
@@ -9,3 +12,6 @@ export interface BenchSection {
 
 export const sections: BenchSection[] = [];
 sections.push(plansBench);
+sections.push(webBench);
+sections.push(phosphorusBench);
+sections.push(loadBench);
