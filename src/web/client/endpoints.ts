@@ -4,11 +4,10 @@ export const endpoints = {
   patient: (id: string | number) => `/api/patients/${id}`,
   patientTargets: (id: string | number) => `/api/patients/${id}/targets`,
   patientPlans: (id: string | number) => `/api/patients/${id}/plans`,
-  plans: '/api/plans',
   plan: (id: string | number) => `/api/plans/${id}`,
   planSummary: (id: string | number) => `/api/plans/${id}/summary`,
   planBinders: (id: string | number) => `/api/plans/${id}/binders`,
-  swaps: (foodId: number, limit = 5) => `/api/foods/${foodId}/swaps?limit=${limit}`,
+  swaps: (foodId: number, limit = 5) => `/api/swaps/${foodId}?limit=${limit}`,
   food: (id: number) => `/api/foods/${id}`,
   handoutHtml: (planId: string | number, lang: string) =>
     `/plans/${planId}/handout?lang=${encodeURIComponent(lang)}`,

@@ -3,7 +3,7 @@ import { initChrome } from '../chrome.js';
 import { byId, errorText, fill, h, pageParams, say } from '../dom.js';
 import { endpoints } from '../endpoints.js';
 import { g, kcal, mg, range, ratio } from '../format.js';
-import { TARGET_NAMES, type Target } from '../patient-types.js';
+import type { Target } from '../patient-types.js';
 import {
   addDay,
   addItem,
@@ -18,11 +18,13 @@ import {
   type PlanDraft,
 } from '../plan-draft.js';
 import type {
-  BinderSlot,
+  Contributor,
+  DaySummary as SummaryDay,
+  ItemSummary as SummaryItem,
   Nutrients,
   PlanSummary,
-  SummaryDay,
-  SummaryItem,
+  SwapResult,
+  TargetCheck,
 } from '../summary-types.js';
 import { attachTypeahead, type FoodHit } from '../typeahead.js';
 
@@ -224,21 +226,14 @@ function evidenceOf(item: SummaryItem | undefined): {
   lines: string[];
 } {
   if (!item) return { additive: false, highRatio: false, lines: [] };
-  const f = (item.flags ?? {}) as Record<string, unknown>;
-  const flagList = Array.isArray(item.flags) ? (item.flags as unknown[]).map(String) : [];
-  const additive =
-    item.additiveLikely === true ||
-    f.additiveLikely === true ||
-    f.additive === true ||
-    flagList.some((x) => x.includes('additive')) ||
-    (item.nutrients.additivePhosphorusMg ?? 0) > 0;
-  const highRatio =
-    item.highRatio === true || f.highRatio === true || flagList.some((x) => x.includes('ratio'));
-  const ev =
-    item.additiveEvidence ??
-    item.evidence ??
-    (Array.isArray(f.evidence) ? (f.evidence as string[]) : []);
-  return { additive, highRatio, lines: ev.map(String) };
+  const found = summary?.flags.additiveFoods.find((f) => f.foodId === item.foodId);
+  const lines = [...(found?.evidence ?? [])];
+  if (item.nutrients.additivePhosphorusMg)
+    lines.push(
+      `Estimated additive phosphorus in this item: ${mg(item.nutrients.additivePhosphorusMg)}`,
+    );
+  lines.push(`Phosphorus split by: ${item.splitMethod}`);
+  return { additive: item.flags.additive, highRatio: item.flags.highRatio, lines };
 }
 
 let tipSeq = 0;
@@ -432,7 +427,7 @@ function renderMeals(): void {
                 o.items.map((item, k) => {
                   const s = summaryItem(activeDay, j, k);
                   const ev = evidenceOf(s);
-                  const name = foods.get(item.foodId)?.name ?? s?.name ?? `food ${item.foodId}`;
+                  const name = foods.get(item.foodId)?.name ?? s?.foodName ?? `food ${item.foodId}`;
                   return h(
                     'tr',
                     { 'data-food-id': String(item.foodId) },
@@ -478,45 +473,43 @@ function renderMeals(): void {
 
 // ---- side panel: totals against targets, binder schedule, contributors and swaps -------------
 
-function targetOf(day: SummaryDay | undefined, key: string): Target | undefined {
-  const t = day?.targets?.[key];
-  return t && typeof t === 'object' ? (t as Target) : undefined;
+const CHECK_NAMES: Record<string, [string, string]> = {
+  phosphorusMg: ['Phosphorus', 'mg'],
+  proteinG: ['Protein', 'g'],
+  energyKcal: ['Energy', 'kcal'],
+  sodiumMg: ['Sodium', 'mg'],
+  potassiumMg: ['Potassium', 'mg'],
+};
+const STATE_TEXT: Record<string, [string, string]> = {
+  within: ['ok', 'within target'],
+  above: ['over', 'over target'],
+  below: ['under', 'under target'],
+  'not-set': ['none', 'no target set'],
+};
+
+function fmtN(n: number): string {
+  return new Intl.NumberFormat('en', { maximumFractionDigits: 0 }).format(n);
 }
 
-function meter(
-  label: string,
-  value: number | null,
-  unit: string,
-  t: Target | undefined,
-  extra?: HTMLElement | string | null,
-): HTMLElement {
-  const v = value ?? 0;
-  const max = t?.max ?? null;
-  const min = t?.min ?? null;
-  const scale = Math.max(max ?? min ?? v, v, 1) * 1.15;
-  let state = 'none';
-  let stateText = 'no target';
-  if (max !== null && v > max) [state, stateText] = ['over', 'over target'];
-  else if (min !== null && v < min) [state, stateText] = ['under', 'under target'];
-  else if (max !== null || min !== null) [state, stateText] = ['ok', 'within target'];
-  const bar = h(
-    'div',
-    { class: `bar${state === 'over' ? ' over' : ''}`, role: 'presentation' },
-    h('span', {}),
-  );
+/** One target line: the value against the range, with the server's verdict (never our own). */
+function meter(check: TargetCheck, target: Target | undefined, extra: string | null): HTMLElement {
+  const [label, unit] = CHECK_NAMES[check.target] ?? [check.target, check.unit];
+  const v = check.value;
+  const scale = Math.max(check.max ?? check.min ?? v, v, 1) * 1.15;
+  const [state, stateText] = STATE_TEXT[check.status] ?? ['none', check.status];
+  const bar = h('div', { class: `bar${state === 'over' ? ' over' : ''}` }, h('span', {}));
   (bar.firstChild as HTMLElement).style.width = `${Math.min(100, (v / scale) * 100)}%`;
-  const tText = t
-    ? min !== null && max !== null
-      ? `${fmtN(min)}–${fmtN(max)} ${unit}`
-      : max !== null
-        ? `< ${fmtN(max)} ${unit}`
-        : min !== null
-          ? `≥ ${fmtN(min)} ${unit}`
-          : 'set by dietitian'
-    : 'no target';
+  const range =
+    check.min !== null && check.max !== null
+      ? `${fmtN(check.min)}–${fmtN(check.max)} ${unit}`
+      : check.max !== null
+        ? `under ${fmtN(check.max)} ${unit}`
+        : check.min !== null
+          ? `at least ${fmtN(check.min)} ${unit}`
+          : 'set by the dietitian';
   return h(
     'div',
-    { class: 'meter', 'data-meter': label },
+    { class: 'meter', 'data-meter': check.target },
     h(
       'div',
       { class: 'meter-head' },
@@ -527,8 +520,8 @@ function meter(
         ' ',
         h(
           'span',
-          { class: 'num', 'data-testid': `total-${label}` },
-          value === null ? '—' : `${fmtN(v)} ${unit}`,
+          { class: 'num', 'data-testid': `total-${check.target}` },
+          `${check.incomplete ? '≥ ' : ''}${fmtN(v)} ${unit}`,
         ),
       ),
       h('span', { class: `state state-${state}` }, stateText),
@@ -537,14 +530,11 @@ function meter(
     h(
       'div',
       { class: 'source' },
-      `Target ${tText}${t?.setBy === 'dietitian' ? ' (set by the dietitian)' : ''}`,
-      extra ? ' · ' : '',
-      extra ?? '',
+      `Target ${range}${target?.setBy === 'dietitian' ? ' (set by the dietitian)' : ''}`,
+      extra ? ` · ${extra}` : '',
+      check.incomplete ? ' · some foods lack this value: the total is a lower bound' : '',
     ),
   );
-}
-function fmtN(n: number): string {
-  return new Intl.NumberFormat('en', { maximumFractionDigits: 0 }).format(n);
 }
 
 function renderTotals(day: SummaryDay | undefined): void {
@@ -555,56 +545,38 @@ function renderTotals(day: SummaryDay | undefined): void {
   }
   const n = day.nutrients;
   const abs = n.absorbablePhosphorusMg;
+  const extras: Record<string, string | null> = {
+    phosphorusMg: `absorbable ${range(abs)} (typical ${mg(abs.typical)})`,
+    proteinG:
+      n.phosphorusProteinRatioMgPerG !== null
+        ? `phosphorus-to-protein ratio ${ratio(n.phosphorusProteinRatioMgPerG)}`
+        : null,
+  };
   fill(
     el,
-    h('p', { class: 'small muted' }, `${day.label}: ${statusText(day.status)}`),
-    meter(
-      'Phosphorus',
-      n.phosphorusMg,
-      'mg',
-      targetOf(day, 'phosphorusMg'),
-      abs ? `absorbable ${range(abs)}, typical ${mg(abs.typical)}` : null,
+    h(
+      'p',
+      { class: 'small' },
+      h(
+        'span',
+        { class: `state ${day.status.level === 'on-target' ? 'state-ok' : 'state-under'}` },
+        day.status.level === 'on-target' ? 'on target' : 'needs attention',
+      ),
+      ` ${day.label}`,
     ),
-    meter(
-      'Protein',
-      n.proteinG,
-      'g',
-      targetOf(day, 'proteinG'),
-      n.phosphorusProteinRatioMgPerG !== null
-        ? `ratio ${ratio(n.phosphorusProteinRatioMgPerG)}`
-        : null,
-    ),
-    meter('Energy', n.energyKcal, 'kcal', targetOf(day, 'energyKcal')),
-    meter('Sodium', n.sodiumMg, 'mg', targetOf(day, 'sodiumMg')),
-    meter('Potassium', n.potassiumMg, 'mg', targetOf(day, 'potassiumMg')),
+    day.status.checks.map((c) => meter(c, day.targets[c.target], extras[c.target] ?? null)),
     h(
       'p',
       { class: 'small' },
       `Additive phosphorus ${mg(n.additivePhosphorusMg)} · calcium ${mg(n.calciumMg)} · energy ${kcal(n.energyKcal)}`,
     ),
-  );
-}
-
-function statusText(status: unknown): string {
-  if (typeof status === 'string') return status;
-  if (status && typeof status === 'object') {
-    const s = status as Record<string, unknown>;
-    if (typeof s.overall === 'string') return s.overall;
-    if (typeof s.summary === 'string') return s.summary;
-    return Object.entries(s)
-      .filter(([, v]) => typeof v === 'string')
-      .map(([k, v]) => `${TARGET_NAMES[k] ?? k} ${String(v)}`)
-      .join(' · ');
-  }
-  return '';
-}
-
-function dayKeyMatches(slot: BinderSlot, index: number, label: string): boolean {
-  return (
-    slot.day === label ||
-    slot.day === index ||
-    slot.day === index + 1 ||
-    String(slot.day) === String(index + 1)
+    day.status.messages.length
+      ? h(
+          'ul',
+          { class: 'swap-list small' },
+          day.status.messages.map((m) => h('li', {}, m)),
+        )
+      : null,
   );
 }
 
@@ -612,87 +584,83 @@ function renderBinders(): void {
   const el = byId('binder-schedule');
   const b = summary?.binders;
   const label = draft.days[activeDay]?.label ?? '';
-  if (!b || !b.prescription) {
+  if (!b || !b.prescription || !b.ingredient) {
     fill(
       el,
-      h('p', { class: 'muted' }, 'No binder prescription on the patient record.'),
+      h(
+        'p',
+        { class: 'muted' },
+        'No binder prescription was on the record when this version was saved.',
+      ),
       plan ? h('a', { href: `/patients/${plan.patientId}` }, 'Record the prescription') : null,
     );
     return;
   }
-  const slots = b.perOccasion.filter((s) => dayKeyMatches(s, activeDay, label));
-  const notes = Array.isArray(b.disagreements)
-    ? (b.disagreements as Array<{ message?: string }>)
-    : [];
+  const p = b.prescription;
+  const slots = b.perOccasion.filter((s) => s.day === label);
+  const dayInfo = b.days.find((d) => d.day === label);
   fill(
     el,
-    h('p', { class: 'small' }, prescriptionText(b.prescription)),
+    h(
+      'p',
+      { class: 'small' },
+      `Prescribed: ${b.ingredient.displayName}, ${p.unitStrengthMg} mg a unit, ${p.units} ${p.units === 1 ? 'unit' : 'units'} ${p.schedule === 'per-meal' ? 'with each meal' : 'per day'}.`,
+    ),
     slots.length === 0
-      ? h('p', { class: 'muted' }, 'No occasion of this day needs a binder.')
+      ? h('p', { class: 'muted' }, 'No occasion of this day gets a binder.')
       : slots.map((s) =>
           h(
             'div',
             { class: 'binder-row', 'data-testid': 'binder-slot' },
-            h('span', {}, h('strong', {}, s.occasion)),
+            h(
+              'span',
+              {},
+              h('strong', {}, s.occasion),
+              s.time ? h('span', { class: 'muted' }, ` ${s.time}`) : null,
+              h(
+                'span',
+                { class: 'muted small' },
+                ` · ${mg(s.absorbablePhosphorusMgTypical)} absorbable`,
+              ),
+            ),
             h('span', { class: 'units num' }, `${s.units} ${s.units === 1 ? 'unit' : 'units'}`),
-            h('span', { class: 'why' }, s.timing, s.reason ? ` — ${s.reason}` : ''),
+            s.units > 0 ? h('span', { class: 'why' }, s.timing) : null,
+            h(
+              'details',
+              {},
+              h('summary', {}, `Why ${s.units} ${s.units === 1 ? 'unit' : 'units'}`),
+              s.reason,
+            ),
           ),
         ),
-    b.elementalCalciumMgPerDay
+    dayInfo
       ? h(
           'p',
           { class: 'small' },
-          `Elemental calcium from binders ${mg(b.elementalCalciumMgPerDay)} per day (KDOQI 2003 limit 1,500 mg from binders).`,
+          `${dayInfo.distributedUnits} of ${dayInfo.prescribedUnits} prescribed units placed. Elemental calcium from binders ${mg(dayInfo.elementalCalciumMgFromBinders)}, with food ${mg(dayInfo.elementalCalciumMgTotal)} (limits ${fmtN(b.limits.fromBindersMaxMg)} mg and ${fmtN(b.limits.totalMaxMg)} mg, ${b.limits.source}).`,
         )
       : null,
-    notes.length
+    dayInfo && dayInfo.disagreements.length
       ? h(
           'ul',
           { class: 'swap-list' },
-          notes.map((d) => h('li', {}, String(d.message ?? ''))),
+          dayInfo.disagreements.map((d) => h('li', {}, d.message)),
         )
       : null,
+    b.ingredient.warnings.length
+      ? h(
+          'ul',
+          { class: 'swap-list' },
+          b.ingredient.warnings.map((w) => h('li', {}, w)),
+        )
+      : null,
+    h('p', { class: 'source' }, b.roundingRule),
   );
-}
-
-function prescriptionText(p: unknown): string {
-  if (!p || typeof p !== 'object') return '';
-  const r = p as Record<string, unknown>;
-  const ing = String(r.ingredient ?? '').replaceAll('-', ' ');
-  const per = r.schedule === 'per-meal' ? 'with each meal' : 'per day';
-  return `Prescribed: ${ing} ${String(r.unitStrengthMg ?? '')} mg, ${String(r.units ?? '')} units ${per}.`;
 }
 
 function renderContributors(): void {
   const el = byId('contributors');
-  const day = draft.days[activeDay];
-  if (!day || !summary) {
-    fill(el, h('p', { class: 'muted' }, 'Nothing yet.'));
-    return;
-  }
-  const rows: Array<{
-    name: string;
-    foodId: number;
-    occ: number;
-    k: number;
-    absMg: number;
-    pMg: number;
-  }> = [];
-  day.occasions.forEach((o, j) =>
-    o.items.forEach((it, k) => {
-      const s = summaryItem(activeDay, j, k);
-      rows.push({
-        name: foods.get(it.foodId)?.name ?? `food ${it.foodId}`,
-        foodId: it.foodId,
-        occ: j,
-        k,
-        absMg: s?.nutrients.absorbablePhosphorusMg?.typical ?? 0,
-        pMg: s?.nutrients.phosphorusMg ?? 0,
-      });
-    }),
-  );
-  rows.sort((a, b) => b.absMg - a.absMg);
-  const top = rows.slice(0, 5);
+  const top = summaryDay(activeDay)?.topContributors ?? [];
   if (top.length === 0) {
     fill(el, h('p', { class: 'muted' }, 'Nothing yet.'));
     return;
@@ -702,23 +670,27 @@ function renderContributors(): void {
     h(
       'ol',
       { class: 'list-plain' },
-      top.map((r) =>
+      top.map((c) =>
         h(
           'li',
           {},
           h(
             'div',
             { class: 'meter-head' },
-            h('span', {}, r.name),
-            h('span', { class: 'num' }, `${mg(r.absMg)} absorbable`),
+            h('span', {}, c.name),
+            h(
+              'span',
+              { class: 'num' },
+              `${mg(c.absorbablePhosphorusMgTypical)} absorbable · ${Math.round(c.share * 100)} % of P`,
+            ),
           ),
           h(
             'button',
             {
               type: 'button',
               class: 'btn btn-small',
-              'aria-label': `Find swaps for ${r.name}`,
-              onclick: () => void showSwaps(r),
+              'aria-label': `Find swaps for ${c.name}`,
+              onclick: () => void showSwaps(c),
             },
             'Swaps',
           ),
@@ -728,30 +700,15 @@ function renderContributors(): void {
   );
 }
 
-interface SwapJson {
-  foodId?: number;
-  id?: number;
-  name: string;
-  absorbableMgPerGProtein?: number | null;
-  reason?: string;
-  [k: string]: unknown;
-}
-
-async function showSwaps(r: {
-  name: string;
-  foodId: number;
-  occ: number;
-  k: number;
-}): Promise<void> {
+async function showSwaps(c: Contributor): Promise<void> {
   const el = byId('swaps');
-  fill(el, h('p', { class: 'muted' }, `Looking for swaps for ${r.name}…`));
+  fill(el, h('p', { class: 'muted' }, `Looking for swaps for ${c.name}…`));
   try {
-    const res = await api<SwapJson[] | { swaps: SwapJson[] }>('GET', endpoints.swaps(r.foodId));
-    const swaps = Array.isArray(res) ? res : res.swaps;
+    const res = await api<SwapResult>('GET', endpoints.swaps(c.foodId));
     fill(
       el,
-      h('h3', {}, `Swaps for ${r.name}`),
-      swaps.length === 0
+      h('h3', {}, `Swaps for ${c.name}`),
+      res.swaps.length === 0
         ? h(
             'p',
             { class: 'muted' },
@@ -760,31 +717,35 @@ async function showSwaps(r: {
         : h(
             'ul',
             { class: 'swap-list' },
-            swaps.map((s) => {
-              const id = s.foodId ?? s.id ?? 0;
-              return h(
+            res.swaps.map((s) =>
+              h(
                 'li',
                 {},
                 s.name,
-                s.reason ? h('span', { class: 'muted small' }, ` — ${s.reason}`) : null,
+                h(
+                  'span',
+                  { class: 'muted small' },
+                  ` — ${Math.round(s.shareOfOriginal * 100)} % of the original's absorbable phosphorus ${res.basis === 'per-g-protein' ? 'per g protein' : 'per portion'}`,
+                ),
                 ' ',
                 h(
                   'button',
                   {
                     type: 'button',
                     class: 'btn btn-small',
-                    'aria-label': `Use ${s.name} instead of ${r.name}`,
-                    onclick: () => void useSwap(r, id, s.name),
+                    'aria-label': `Use ${s.name} instead of ${c.name}`,
+                    onclick: () => void useSwap(c.foodId, s.foodId, s.name),
                   },
                   'Use',
                 ),
-              );
-            }),
+              ),
+            ),
           ),
+      h('p', { class: 'source' }, res.rule),
       h(
         'p',
         { class: 'small muted' },
-        'Swaps keep the weight of the food they replace; check the portion with the patient.',
+        'A swap keeps the weight of the food it replaces; check the portion with the patient.',
       ),
     );
   } catch (err) {
@@ -792,11 +753,18 @@ async function showSwaps(r: {
   }
 }
 
-async function useSwap(r: { occ: number; k: number }, foodId: number, name: string): Promise<void> {
-  const item = draft.days[activeDay]?.occasions[r.occ]?.items[r.k];
-  if (!item) return;
-  await loadFood(foodId, name);
-  await commit(updateItem(draft, activeDay, r.occ, r.k, { foodId, measure: null }));
+/** Replaces every item of the food in the shown day, keeping each item's weight in grams. */
+async function useSwap(fromId: number, toId: number, name: string): Promise<void> {
+  await loadFood(toId, name);
+  let next = draft;
+  next.days[activeDay]?.occasions.forEach((o, j) =>
+    o.items.forEach((it, k) => {
+      if (it.foodId === fromId)
+        next = updateItem(next, activeDay, j, k, { foodId: toId, measure: null });
+    }),
+  );
+  fill(byId('swaps'), h('p', { class: 'status ok' }, `${name} is in the plan now.`));
+  await commit(next);
 }
 
 function renderSide(): void {

@@ -4,45 +4,32 @@ import { byId, errorText, fill, h, say } from '../dom.js';
 import { endpoints } from '../endpoints.js';
 import { g, mg, range } from '../format.js';
 import type { Patient } from '../patient-types.js';
-import type { AbsorbableRange, Nutrients } from '../summary-types.js';
+import type { DiaryEntryReport, DiaryReport } from '../../../diary/findings.js';
 import { attachTypeahead } from '../typeahead.js';
 
 initChrome();
 
-interface Candidate {
-  foodId: number;
-  name: string;
-  confidence: number;
-}
-interface Entry {
-  line: number;
-  text: string;
-  match: Candidate | null;
-  candidates?: Candidate[];
-  runnersUp?: Candidate[];
-  grams: number | null;
-  quantityAssumed: boolean;
-  phosphorusMg: number | null;
-  absorbablePhosphorusMg: AbsorbableRange | null;
-  additivePhosphorusMg: number | null;
-  hidden: boolean;
-  findings: string[];
-  [k: string]: unknown;
-}
-interface Audit {
-  id?: number | string;
-  auditId?: number | string;
-  entries: Entry[];
-  days: Array<{ date: string | null; nutrients: Nutrients; [k: string]: unknown }>;
-  unmatched: number[];
-  [k: string]: unknown;
-}
+type Entry = DiaryEntryReport;
+type Audit = DiaryReport & {
+  id: number;
+  patientId: number | null;
+  createdAt: string;
+  updatedAt: string;
+};
 
 let audit: Audit | undefined;
 
 function auditId(a: Audit): string {
-  return String(a.id ?? a.auditId ?? '');
+  return String(a.id);
 }
+
+const METHOD_TEXT: Record<string, string> = {
+  barcode: 'by barcode',
+  remembered: 'remembered for this clinic',
+  confirmed: 'confirmed by the dietitian',
+  text: 'by its words',
+  none: '',
+};
 
 function confClass(c: number): string {
   return c >= 0.8 ? 'conf-high' : c >= 0.5 ? 'conf-mid' : 'conf-low';
@@ -70,6 +57,7 @@ function renderDays(a: Audit): void {
               h('th', { class: 'n' }, 'Absorbable'),
               h('th', { class: 'n' }, 'Additive P'),
               h('th', { class: 'n' }, 'Protein'),
+              h('th', {}, 'Against targets'),
             ),
           ),
           h(
@@ -79,16 +67,75 @@ function renderDays(a: Audit): void {
               h(
                 'tr',
                 {},
-                h('td', {}, d.date ?? 'undated'),
+                h(
+                  'td',
+                  {},
+                  d.label,
+                  h(
+                    'div',
+                    { class: 'small muted' },
+                    `${d.entryCount} entries, ${d.unmatchedCount} unmatched`,
+                  ),
+                ),
                 h('td', { class: 'n num' }, mg(d.nutrients.phosphorusMg)),
                 h('td', { class: 'n num' }, range(d.nutrients.absorbablePhosphorusMg)),
                 h('td', { class: 'n num' }, mg(d.nutrients.additivePhosphorusMg)),
                 h('td', { class: 'n num' }, g(d.nutrients.proteinG)),
+                h(
+                  'td',
+                  { class: 'small' },
+                  a.targetsSource === 'none'
+                    ? 'no patient linked: no targets'
+                    : d.status.checks
+                        .filter((c) => c.status === 'above' || c.status === 'below')
+                        .map((c) => c.message)
+                        .join('; ') || 'within the targets set',
+                ),
               ),
             ),
           ),
         ),
   );
+}
+
+function renderDayExtras(a: Audit): void {
+  const box = byId('diary-days');
+  for (const d of a.days) {
+    if (d.topContributors.length === 0) continue;
+    box.append(
+      h('h3', {}, `${d.label}: heaviest loads`),
+      h(
+        'ul',
+        { class: 'swap-list' },
+        d.topContributors.map((c) => {
+          const sw = d.swaps.find((x) => x.foodId === c.foodId);
+          return h(
+            'li',
+            {},
+            `${c.name}: ${mg(c.absorbablePhosphorusMgTypical)} absorbable (${Math.round(c.share * 100)} % of the day's phosphorus)`,
+            sw && sw.swaps.length
+              ? h(
+                  'div',
+                  { class: 'small muted' },
+                  `Swaps: ${sw.swaps.map((x) => `${x.name} (${Math.round(x.shareOfOriginal * 100)} %)`).join('; ')}`,
+                )
+              : null,
+          );
+        }),
+      ),
+    );
+  }
+  if (a.skipped.length) {
+    box.append(
+      h('h3', {}, 'Lines left out'),
+      h(
+        'ul',
+        { class: 'swap-list' },
+        a.skipped.map((x) => h('li', {}, `line ${x.line}: ${x.message}`)),
+      ),
+    );
+  }
+  box.append(h('p', { class: 'source' }, a.caution));
 }
 
 function fixer(e: Entry, index: number): HTMLElement {
@@ -111,7 +158,7 @@ function fixer(e: Entry, index: number): HTMLElement {
     hidden: true,
     'aria-label': 'Matching foods',
   });
-  const others = e.candidates ?? e.runnersUp ?? [];
+  const others = e.candidates;
   const wrap = h(
     'div',
     { class: 'entry-fix' },
@@ -182,8 +229,11 @@ function renderEntries(a: Audit): void {
             h('td', {}, e.text),
             h(
               'td',
-              { 'data-testid': 'match-name' },
-              e.match ? e.match.name : h('span', { class: 'flag flag-hidden' }, 'unmatched'),
+              {},
+              h('span', { 'data-testid': 'match-name' }, e.match ? e.match.name : 'unmatched'),
+              METHOD_TEXT[e.matchMethod]
+                ? h('div', { class: 'small muted' }, METHOD_TEXT[e.matchMethod])
+                : null,
             ),
             h(
               'td',
@@ -201,6 +251,7 @@ function renderEntries(a: Audit): void {
               { class: 'n num' },
               e.grams === null ? '—' : g(e.grams, 0),
               e.quantityAssumed ? h('div', { class: 'small muted' }, 'portion assumed') : null,
+              e.quantityNote ? h('div', { class: 'small muted' }, e.quantityNote) : null,
             ),
             h(
               'td',
@@ -227,9 +278,18 @@ function renderEntries(a: Audit): void {
                 : null,
               e.findings.length
                 ? h(
-                    'ul',
-                    { class: 'swap-list' },
-                    e.findings.map((f) => h('li', {}, f)),
+                    'details',
+                    {},
+                    h(
+                      'summary',
+                      {},
+                      `${e.findings.length} ${e.findings.length === 1 ? 'finding' : 'findings'}`,
+                    ),
+                    h(
+                      'ul',
+                      { class: 'swap-list' },
+                      e.findings.map((f) => h('li', {}, f)),
+                    ),
                   )
                 : null,
             ),
@@ -244,6 +304,7 @@ function renderEntries(a: Audit): void {
 function render(a: Audit): void {
   audit = a;
   renderDays(a);
+  renderDayExtras(a);
   renderEntries(a);
   const pdf = byId<HTMLAnchorElement>('diary-pdf');
   const id = auditId(a);

@@ -29,7 +29,7 @@ async function show(): Promise<void> {
     frame.srcdoc = text.replace(/<head([^>]*)>/i, `<head$1><base href="${location.origin}/">`);
     frame.dataset.lang = lang;
   } catch (err) {
-    frame.srcdoc = `<p style="font-family:sans-serif;color:#9b1c1f">The sheet could not be prepared: ${escapeHtml(errorText(err))}</p>`;
+    frame.srcdoc = `<p>The sheet could not be prepared: ${escapeHtml(errorText(err))}</p>`;
   }
 }
 

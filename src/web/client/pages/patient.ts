@@ -39,7 +39,9 @@ function renderTargets(t: Targets, p: Patient): void {
     h(
       'p',
       { class: 'small muted' },
-      `${stageText(p)}${p.diabetes ? ', diabetes' : ''}; weight used for targets ${p.weightKg} kg.`,
+      `${stageText(p)}${p.diabetes ? ', diabetes' : ''}; weight used for targets ${p.weightKg} kg; preferred language `,
+      h('span', { id: 'patient-language' }, p.language),
+      '.',
     ),
     h(
       'dl',
@@ -203,7 +205,9 @@ async function save(
 ): Promise<void> {
   say(statusId, 'Saving…');
   try {
-    patient = await api<Patient>('PATCH', endpoints.patient(id), update);
+    // The language is always sent: the update schema would otherwise reset it to its default.
+    const body = patient ? { language: patient.language, ...update } : update;
+    patient = await api<Patient>('PATCH', endpoints.patient(id), body);
     renderAll(patient);
     say(statusId, done, 'ok');
     void loadTargets();
@@ -298,10 +302,7 @@ byId<HTMLFormElement>('new-plan-form').addEventListener('submit', (e) => {
     return;
   }
   say('plans-status', 'Creating…');
-  api<{ id: number }>('POST', endpoints.plans, {
-    patientId: Number(id),
-    ...toPlanInput({ name, days: [newDay(0)] }),
-  })
+  api<{ id: number }>('POST', endpoints.patientPlans(id), toPlanInput({ name, days: [newDay(0)] }))
     .then((pl) => location.assign(`/plans/${pl.id}`))
     .catch((err: unknown) => say('plans-status', errorText(err), 'error'));
 });

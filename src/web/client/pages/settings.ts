@@ -9,13 +9,14 @@ type Json = string | number | boolean | null | Json[] | { [k: string]: Json };
 
 /** What `GET /api/settings/:key` answers: the value, and where known its default and sources. */
 interface SettingJson {
-  key?: string;
+  key: string;
   value: Json;
-  default?: Json;
-  defaults?: Json;
-  sources?: Record<string, string> | null;
-  updatedAt?: string | null;
-  [k: string]: unknown;
+  default: Json;
+  /** Where the default comes from (guideline, paper, or "common practice, no source"). */
+  source: string | Record<string, string> | null;
+  description?: string;
+  isDefault: boolean;
+  updatedAt: string | null;
 }
 
 const LABELS: Record<string, string> = {
@@ -118,31 +119,53 @@ function read(form: HTMLFormElement): Json {
   return out;
 }
 
+function show(box: HTMLElement, s: SettingJson): void {
+  const perField = s.source && typeof s.source === 'object' ? s.source : null;
+  fill(
+    box,
+    s.description ? h('p', { class: 'small muted' }, s.description) : null,
+    fields(s.value, [], perField),
+    typeof s.source === 'string' ? h('p', { class: 'source' }, `Defaults: ${s.source}`) : null,
+    h(
+      'p',
+      { class: 'source' },
+      s.isDefault
+        ? 'Using the defaults.'
+        : `Changed by the clinic${s.updatedAt ? ` on ${s.updatedAt.slice(0, 16).replace('T', ' ')} UTC` : ''}.`,
+    ),
+  );
+}
+
 async function setUp(form: HTMLFormElement): Promise<void> {
   const key = form.dataset.key ?? '';
   const box = form.querySelector('.fields') as HTMLElement;
   const statusId = `${key}-status`;
   try {
-    const s = await api<SettingJson>('GET', endpoints.setting(key));
-    fill(box, fields(s.value, [], s.sources ?? null));
-    if (s.updatedAt)
-      box.append(
-        h(
-          'p',
-          { class: 'source' },
-          `Last changed ${s.updatedAt.slice(0, 16).replace('T', ' ')} UTC`,
-        ),
-      );
+    show(box, await api<SettingJson>('GET', endpoints.setting(key)));
   } catch (err) {
     fill(box, h('p', { class: 'status error' }, `Setting unavailable: ${errorText(err)}`));
     return;
   }
+  const reset = h('button', { type: 'button', class: 'btn btn-quiet' }, 'Back to defaults');
+  form.querySelector('button[type="submit"]')?.after(' ', reset);
+  reset.addEventListener('click', () => {
+    say(statusId, 'Restoring the defaults…');
+    api<SettingJson>('DELETE', endpoints.setting(key))
+      .then((saved) => {
+        show(box, saved);
+        say(statusId, 'Defaults restored.', 'ok');
+      })
+      .catch((err: unknown) => say(statusId, errorText(err), 'error'));
+  });
   form.addEventListener('submit', (e) => {
     e.preventDefault();
     const value = read(form);
     say(statusId, 'Saving…');
-    api<SettingJson>('PUT', endpoints.setting(key), { value })
-      .then(() => say(statusId, 'Saved.', 'ok'))
+    api<SettingJson>('PUT', endpoints.setting(key), value)
+      .then((saved) => {
+        show(box, saved);
+        say(statusId, 'Saved.', 'ok');
+      })
       .catch((err: unknown) => say(statusId, errorText(err), 'error'));
   });
 }
