@@ -85,6 +85,12 @@ describe('demo seed (invented demo data over the IFCT 2017 codes)', () => {
     ).toBe('skipped');
     const patients = db.sqlite.prepare('select label, is_demo from patient').all();
     expect(patients).toEqual([{ label: 'DEMO-01 (invented demo patient)', is_demo: 1 }]);
+    const clinic = db.sqlite
+      .prepare("select value_json from setting where key = 'clinic'")
+      .get() as {
+      value_json: string;
+    };
+    expect(JSON.parse(clinic.value_json).name).toMatch(/invented demo data/);
     const plans = db.sqlite.prepare('select name, day_count, is_demo from plan').all();
     expect(plans).toEqual([
       { name: 'Three-day starter plan (invented demo data)', day_count: 3, is_demo: 1 },

@@ -396,6 +396,13 @@ describe('patients and plans over HTTP', () => {
       });
       expect(saved.statusCode, saved.body).toBe(200);
       expect(saved.json()).toMatchObject({ version: 2, latestVersion: 2, name: 'Consult 2' });
+      // a bad save is refused and adds no version
+      const badSave = await ctx.inject({
+        method: 'PUT',
+        url: `/api/plans/${created.id}`,
+        payload: { ...plan2, days: [] },
+      });
+      expect(badSave.statusCode).toBe(400);
       ctx.db.sqlite.prepare('update food set phosphorus_mg = phosphorus_mg * 2').run();
       await ctx.inject({
         method: 'PATCH',
