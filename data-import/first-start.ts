@@ -1,4 +1,5 @@
 import type { FirstStartContext } from '../src/server/serve.js';
+import { auditImport, SYSTEM_FIRST_START } from '../src/audit/actors.js';
 import { ifct2017 } from './ifct2017.js';
 
 /**
@@ -21,6 +22,7 @@ export async function importDefaultFoodTable(ctx: FirstStartContext): Promise<vo
       }
     },
   });
+  await auditImport(ctx.db, result, SYSTEM_FIRST_START, ctx.clock);
   if (!result.ok) {
     ctx.io.stderr.write(
       `first start: the default food table could not be imported: ${result.fatal.message}\n` +
