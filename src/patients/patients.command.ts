@@ -54,7 +54,7 @@ export const patientShow: Command = {
         `${p.label}${p.name ? ` (${p.name})` : ''}${p.isDemo ? '  [demo data]' : ''}`,
         `CKD ${p.ckdStage}, ${p.dialysis === 'none' ? 'not on dialysis' : p.dialysis}, ${p.diabetes ? 'diabetes' : 'no diabetes'}, weight for targets ${p.weightKg} kg, language ${p.language}`,
         ...p.labs.map((l) => `  ${l.date} ${l.analyte} ${l.mgPerDl} mg/dL = ${l.mmolPerL} mmol/L`),
-        'targets per day:',
+        `targets per day (${p.targetsCaution}):`,
         ...Object.entries(p.targets).map(
           ([k, t]) =>
             `  ${k}: ${t.min ?? '-'} to ${t.max ?? '-'} ${t.unit} (${t.setBy}); ${t.source}${t.note ? `. ${t.note}` : ''}`,

@@ -5,7 +5,7 @@ import type { Clock } from '../clock.js';
 import type { Db } from '../db/database.js';
 import { patientInputSchema, patientUpdateSchema, type Patient } from './patient.js';
 import { PatientService } from './patients.service.js';
-import { computeTargets } from './targets.js';
+import { TARGETS_CAUTION, computeTargets } from './targets.js';
 
 declare module 'fastify' {
   interface FastifyContextConfig {
@@ -15,7 +15,7 @@ declare module 'fastify' {
 }
 
 export function toPatientJson(p: Patient) {
-  return { ...p, targets: computeTargets(p) };
+  return { ...p, targets: computeTargets(p), targetsCaution: TARGETS_CAUTION };
 }
 
 const idParams = z.object({ id: z.coerce.number().int().positive() });

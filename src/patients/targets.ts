@@ -64,6 +64,10 @@ export function kdoqi2020ProteinGPerKg(
 
 const round1 = (x: number) => Math.round(x * 10) / 10;
 
+/** Shown wherever targets are: they are starting points from guidelines, not prescriptions. */
+export const TARGETS_CAUTION =
+  'Targets are guideline starting points computed from the record; the dietitian and the care team set the ones that apply to this patient.';
+
 /**
  * Daily targets from the record, each with its source; dietitian overrides replace defaults.
  * Amounts are per day; protein and energy scale with the weight the clinician chose.
