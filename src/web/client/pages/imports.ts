@@ -19,18 +19,12 @@ interface Source {
   portions: number | null;
   skipped: number | null;
 }
-interface ImportJob {
-  id: string | number;
-  state: 'queued' | 'running' | 'done' | 'failed';
-  format?: string | null;
-  fileName?: string;
-  progress?: { done: number; total: number | null; phase?: string } | null;
-  result?: {
-    imported?: number;
-    skipped?: number;
-    errors?: Array<{ line?: number; message: string }>;
-  } | null;
-  error?: { code: string; message: string } | null;
+type ImportJob = import('../../../imports/imports.js').ImportJob;
+interface Format {
+  format: string;
+  title: string;
+  where: string;
+  pathHint: string;
 }
 
 const count = (n: number | null | undefined) => (n === null || n === undefined ? '—' : num(n, 0));
@@ -93,15 +87,22 @@ async function loadSources(): Promise<void> {
 }
 
 async function loadFormats(): Promise<void> {
+  const sel = byId<HTMLSelectElement>('import-format');
+  const hint = byId('import-format-hint');
   try {
-    const formats = await api<Array<{ format: string; title?: string }>>(
-      'GET',
-      endpoints.importFormats,
+    const formats = await api<Format[]>('GET', endpoints.importFormats);
+    fill(
+      sel,
+      formats.map((f) => h('option', { value: f.format }, f.title)),
     );
-    const sel = byId<HTMLSelectElement>('import-format');
-    for (const f of formats) sel.append(h('option', { value: f.format }, f.title ?? f.format));
-  } catch {
-    // Detection from the file still works.
+    const show = () => {
+      const f = formats.find((x) => x.format === sel.value);
+      hint.textContent = f ? `${f.pathHint}. ${f.where}` : '';
+    };
+    sel.addEventListener('change', show);
+    show();
+  } catch (err) {
+    hint.textContent = `Formats unavailable: ${errorText(err)}`;
   }
 }
 
@@ -109,40 +110,37 @@ function showProgress(job: ImportJob): void {
   const wrap = byId('import-progress-wrap');
   const bar = byId<HTMLProgressElement>('import-progress');
   wrap.hidden = false;
+  bar.max = 100;
+  if (job.fraction !== null) bar.value = Math.round(job.fraction * 100);
+  else bar.removeAttribute('value');
   const p = job.progress;
-  if (p && p.total) {
-    bar.max = p.total;
-    bar.value = p.done;
-  } else if (job.state === 'done') {
-    bar.max = 1;
-    bar.value = 1;
-  } else bar.removeAttribute('value');
   byId('import-progress-label').textContent =
-    `Import ${job.state}${p?.phase ? `: ${p.phase}` : ''}${p?.total ? ` (${num((p.done / p.total) * 100, 0)} %)` : ''}`;
+    `Import ${job.state}` +
+    (job.fraction !== null ? `: ${num(job.fraction * 100, 0)} % read` : '') +
+    (p ? ` (${p.file}, ${num(p.rows, 0)} rows)` : '');
 }
 
 async function follow(id: string | number): Promise<void> {
   for (;;) {
     const job = await api<ImportJob>('GET', endpoints.importJob(id));
     showProgress(job);
-    if (job.state === 'done') {
+    if (job.state === 'done' && job.result?.ok) {
       const r = job.result;
+      const problems = r.errors
+        .slice(0, 5)
+        .map((e) => `${e.file}${e.line ? ` line ${e.line}` : ''}: ${e.message}`);
       say(
         'import-status',
-        `Imported ${count(r?.imported)} foods, skipped ${count(r?.skipped)}.${
-          r?.errors?.length
-            ? ` ${r.errors.length} problems: ${r.errors
-                .slice(0, 3)
-                .map((e) => (e.line ? `line ${e.line}: ` : '') + e.message)
-                .join('; ')}`
-            : ''
-        }`,
+        `Imported ${count(r.imported)} foods, ${count(r.values)} nutrient values and ${count(r.portions)} household measures; ${count(r.skipped)} rows left out.` +
+          (problems.length
+            ? ` ${count(r.issueCount)} problems, first: ${problems.join('; ')}`
+            : ''),
         'ok',
       );
       await loadSources();
       return;
     }
-    if (job.state === 'failed') {
+    if (job.state === 'failed' || job.state === 'done') {
       say(
         'import-status',
         `Import failed, nothing was changed: ${job.error?.message ?? 'unknown error'}`,
@@ -162,8 +160,10 @@ byId<HTMLFormElement>('import-form').addEventListener('submit', (e) => {
     return;
   }
   const form = new FormData();
-  const format = byId<HTMLSelectElement>('import-format').value;
-  if (format) form.append('format', format);
+  // The fields go before the file: the server reads them first.
+  form.append('format', byId<HTMLSelectElement>('import-format').value);
+  const release = byId<HTMLInputElement>('import-release').value.trim();
+  if (release) form.append('release', release);
   form.append('file', file);
   say('import-status', `Uploading ${file.name}…`);
   api<ImportJob>('POST', endpoints.imports, undefined, { form })
