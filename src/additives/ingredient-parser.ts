@@ -44,8 +44,8 @@ export interface IngredientAnalysis {
 
 interface Folded {
   norm: string;
-  /** norm index -> index into the original text */
-  map: number[];
+  /** norm index -> index into the original text; null when they are the same */
+  map: number[] | null;
 }
 
 const foldCache = new Map<string, string>();
@@ -72,54 +72,64 @@ function isLetterCode(c: number): boolean {
 }
 
 /** Lower case, diacritics removed, soft hyphens dropped, "phos-\nphate" joined, breaks as spaces. */
+// Printable ASCII without line breaks: folding is lower-casing and offsets do not move.
+const PLAIN_ASCII_RE = /^[\x20-\x7e]*$/;
+
 function fold(text: string): Folded {
-  const out: string[] = [];
-  const map: number[] = [];
+  if (PLAIN_ASCII_RE.test(text)) return { norm: text.toLowerCase(), map: null };
   const n = text.length;
+  // Folding can at most double a character (ß -> ss); buffers sized for that.
+  const buf = new Uint16Array(2 * n + 2);
+  const map: number[] = new Array<number>(2 * n + 2);
+  let k = 0;
   for (let i = 0; i < n; i++) {
     const code = text.charCodeAt(i);
-    if (code === 10 || code === 13) {
-      // Hyphenation at a line break: letter, '-', break, letter -> join the two halves.
-      const last = out.length - 1;
-      if (last >= 1 && out[last] === '-' && isLetterCode((out[last - 1] as string).charCodeAt(0))) {
-        let j = i;
-        while (j < n && /\s/.test(text[j] as string)) j++;
-        const next = j < n ? foldChar(text[j] as string) : '';
-        if (next.length > 0 && isLetterCode(next.charCodeAt(0))) {
-          out.pop();
-          map.pop();
-          // Drop trailing spaces before the hyphen too ("phos -\nphate" is rare; keep simple).
-          i = j - 1;
-          continue;
+    if (code < 128) {
+      if (code === 10 || code === 13) {
+        // Hyphenation at a line break: letter, '-', break, letter -> join the two halves.
+        if (k >= 2 && buf[k - 1] === 45 && isLetterCode(buf[k - 2] as number)) {
+          let j = i;
+          while (j < n && /\s/.test(text[j] as string)) j++;
+          const next = j < n ? foldChar(text[j] as string) : '';
+          if (next.length > 0 && isLetterCode(next.charCodeAt(0))) {
+            k--; // drop the hyphen
+            i = j - 1;
+            continue;
+          }
         }
+        buf[k] = 32;
+      } else {
+        buf[k] = code >= 65 && code <= 90 ? code + 32 : code === 9 ? 32 : code;
       }
-      out.push(' ');
-      map.push(i);
+      map[k++] = i;
       continue;
     }
-    let f: string;
-    if (code < 128) {
-      f =
-        code >= 65 && code <= 90
-          ? String.fromCharCode(code + 32)
-          : code === 9
-            ? ' '
-            : (text[i] as string);
-    } else if (code >= 0xd800 && code <= 0xdbff && i + 1 < n) {
+    if (code >= 0xd800 && code <= 0xdbff && i + 1 < n) {
       // Astral characters (emoji and the like) carry no letters we match: one space for both halves.
-      out.push(' ');
-      map.push(i);
+      buf[k] = 32;
+      map[k++] = i;
       i++;
       continue;
-    } else {
-      f = foldChar(text[i] as string);
     }
-    for (let k = 0; k < f.length; k++) {
-      out.push(f[k] as string);
-      map.push(i);
+    if (code >= 0xd800 && code <= 0xdfff) {
+      buf[k] = 32; // a lone surrogate
+      map[k++] = i;
+      continue;
+    }
+    const f = foldChar(text[i] as string);
+    for (let q = 0; q < f.length; q++) {
+      buf[k] = f.charCodeAt(q);
+      map[k++] = i;
     }
   }
-  return { norm: out.join(''), map };
+  map.length = k;
+  let norm = '';
+  for (let q = 0; q < k; q += 8192)
+    norm += String.fromCharCode.apply(
+      null,
+      buf.subarray(q, Math.min(k, q + 8192)) as unknown as number[],
+    );
+  return { norm, map };
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -241,7 +251,11 @@ for (const e of ADDITIVE_CATALOGUE)
   for (const a of e.abbreviations) ABBREVIATIONS.set(a.toLowerCase(), e);
 
 // Cheap pre-check on the raw text (accents allowed between letters): no hit, no phosphate.
-const QUICK_RE = /ph?os|f[oó]s|[0-9]|l\S?[cz]\S?t|guan|inos|ribon|sapp|stpp|shmp|tspp|salp|\+/i;
+/** Letter sequences every matched name contains (folded text). */
+const NAME_GATE_RE =
+  /phos|fos|osph|ospat|hosp|lec|lez|guan|inosin|ribonu|sapp|stpp|shmp|tspp|salp|i\s*\+\s*g/;
+
+const QUICK_RE = /\d\d\d|ph?os|f[oó]s|l\S?[cz]\S?t|guan|inos|ribon|sapp|stpp|shmp|tspp|salp|\+/i;
 
 // ---------------------------------------------------------------------------------------------
 
@@ -334,7 +348,7 @@ interface CationHit {
 }
 
 /** Scans the tokens of a folded statement and returns raw findings in norm offsets. */
-function scan(norm: string, tokens: Token[]): Raw[] {
+function scan(norm: string, tokens: Token[], hasNumbers: boolean, hasNames: boolean): Raw[] {
   const raws: Raw[] = [];
   const consumed = new Uint8Array(tokens.length);
   const n = tokens.length;
@@ -346,7 +360,7 @@ function scan(norm: string, tokens: Token[]): Raw[] {
 
   // ---- numbers: E 339, E-339(ii), E450iii, INS 451, bare numbers in an additive list
   let listOpen = false;
-  for (let i = 0; i < n; i++) {
+  for (let i = 0; hasNumbers && i < n; i++) {
     const t = tokens[i] as Token;
     if (t.type === 'w') {
       if ((t.t === 'e' || t.t === 'ins') && tok(i + 1)) {
@@ -365,13 +379,11 @@ function scan(norm: string, tokens: Token[]): Raw[] {
       if (CONJ.has(t.t)) continue;
       if (listOpen && (t.t === 'and' || t.t === 'or')) continue;
       listOpen = false;
-      if (CLASS_WORD_RE.test(t.t)) {
+      const next = tok(i + 1);
+      if (next && (next.t === ':' || next.t === '(' || next.t === '[') && CLASS_WORD_RE.test(t.t)) {
         // "emulsifying salts: 339" / "mineral salts (451, 452)"
-        const next = tok(i + 1);
-        if (next && (next.t === ':' || next.t === '(' || next.t === '[')) {
-          listOpen = true;
-          i++;
-        }
+        listOpen = true;
+        i++;
       }
       continue;
     }
@@ -443,7 +455,7 @@ function scan(norm: string, tokens: Token[]): Raw[] {
   }
 
   // ---- names
-  for (let i = 0; i < n; i++) {
+  for (let i = 0; hasNames && i < n; i++) {
     if (consumed[i]) continue;
     const t = tokens[i] as Token;
     if (t.type !== 'w') continue;
@@ -1113,8 +1125,11 @@ export function analyzeIngredientsStrict(
     if (typeof text !== 'string' || text.length === 0 || !QUICK_RE.test(text))
       return { additives: [] };
     const { norm, map } = fold(text);
+    const hasNumbers = /\d\d\d/.test(norm);
+    const hasNames = NAME_GATE_RE.test(norm);
+    if (!hasNumbers && !hasNames) return { additives: [] };
     const tokens = tokenize(norm);
-    const raws = scan(norm, tokens)
+    const raws = scan(norm, tokens, hasNumbers, hasNames)
       .filter((r) => !denied(norm, r.s, r.e))
       .sort((a, b) => a.s - b.s || b.e - a.e);
     // A name and its number side by side ("sodium phosphate (E 339)") are one additive.
@@ -1144,8 +1159,8 @@ export function analyzeIngredientsStrict(
       merged.push({ ...r });
     }
     const additives = merged.map((r): AdditiveFinding => {
-      const start = map[r.s] as number;
-      const lastIdx = map[r.e - 1] as number;
+      const start = map ? (map[r.s] as number) : r.s;
+      const lastIdx = map ? (map[r.e - 1] as number) : r.e - 1;
       const lastCode = text.charCodeAt(lastIdx);
       const end = lastCode >= 0xd800 && lastCode <= 0xdbff ? lastIdx + 2 : lastIdx + 1;
       return {

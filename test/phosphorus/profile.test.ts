@@ -7,7 +7,9 @@ import { hasSr28, SR28_MISSING } from '../helpers/shared.js';
 import { loadAllSr28Foods, sr28Foods } from '../helpers/sr28.js';
 
 /** An invented demo food (not from any table). */
-function demoFood(over: Partial<Omit<Food, 'per100g'>> & { per100g?: Partial<Food['per100g']> }): Food {
+function demoFood(
+  over: Partial<Omit<Food, 'per100g'>> & { per100g?: Partial<Food['per100g']> },
+): Food {
   return {
     id: 1,
     sourceId: 1,
