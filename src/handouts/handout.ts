@@ -1,9 +1,6 @@
 import { z } from 'zod';
 
-/**
- * The parts of the plan summary (`plan summary --json` contract) that a handout reads. Declared
- * here, narrowly, so the handout depends on the contract and not on the plans module's code.
- */
+/** Amounts the handout prints, mg of phosphorus (absorbable as low/typical/high estimates). */
 export interface HandoutNutrients {
   phosphorusMg: number;
   absorbablePhosphorusMg: { low: number; typical: number; high: number };
@@ -14,15 +11,12 @@ export interface HandoutNutrients {
 export interface HandoutItem {
   foodId: number;
   grams: number;
-  /** What the plan calls the item (the patient-facing label when the dietitian gave one). */
+  /** The patient's own words (the patient-facing label), or the food's name when none was given. */
   label: string;
-  /** The words the patient uses, when the summary carries them separately from `label`. */
-  patientLabel?: string | null;
   /** The household measure the dietitian entered (from the food table), when there is one. */
-  measure?: { amount: number; description: string } | null;
-  /** The summary's flag for foods likely to contain phosphate additives. */
-  additiveLikely?: boolean;
-  nutrients: HandoutNutrients;
+  measure?: { count: number; description: string } | null;
+  /** The summary's flags; `additive` marks foods likely to contain phosphate additives. */
+  flags?: { additive: boolean };
 }
 
 export interface HandoutOccasion {
@@ -36,17 +30,21 @@ export interface HandoutDay {
   label: string;
   occasions: HandoutOccasion[];
   nutrients: HandoutNutrients;
-  /** The day's targets; the handout reads the phosphorus target (mg per day) from it. */
+  /** The day's targets; the handout reads the phosphorus target (max, mg per day) from it. */
   targets?: unknown;
 }
 
 export interface HandoutBinderDose {
-  day: number | string;
+  /** The day's label as in `days[].label` (a number is read as the day's position, from 1). */
+  day: string | number;
   occasion: string;
   units: number;
-  timing?: string | null;
 }
 
+/**
+ * The parts of the plan summary (`plan summary --json` contract, `PlanSummary` in
+ * src/plans/summary-types.ts) that a handout reads; a PlanSummary is assignable to it.
+ */
 export interface HandoutSummary {
   planId: number;
   patientId: number;
@@ -59,6 +57,8 @@ export interface HandoutSummary {
       units: number;
     } | null;
     perOccasion: HandoutBinderDose[];
+    /** Units handed out per day after distribution, when the summary lists them. */
+    days?: { day: string; distributedUnits: number }[];
     elementalCalciumMgPerDay?: number | null;
   } | null;
 }
@@ -76,7 +76,7 @@ export interface HandoutClinic {
 
 /** One phosphate additive as the "foods to watch" section needs it (from the additive catalogue). */
 export interface AdditiveLabelEntry {
-  eNumber: string;
+  eNumber: string | null;
   insNumber?: string | null;
   counted: boolean;
   labelNames: Partial<Record<string, readonly string[]>>;

@@ -177,9 +177,9 @@ export function phosphorusTargetMg(targets: unknown): number | null {
 }
 
 /** Whether a binder dose row belongs to the day at index dayIndex (0-based). */
-function sameDay(rowDay: number | string, dayIndex: number, day: HandoutDay, zeroBased: boolean) {
-  if (typeof rowDay === 'string') return rowDay === day.label || rowDay === String(dayIndex + 1);
-  return zeroBased ? rowDay === dayIndex : rowDay === dayIndex + 1;
+function sameDay(rowDay: number | string, dayIndex: number, day: HandoutDay) {
+  if (typeof rowDay === 'string') return rowDay === day.label;
+  return rowDay === dayIndex + 1;
 }
 
 /**
@@ -219,7 +219,6 @@ export function buildHandoutViewModel(
   const ingredient = summary.binders?.prescription?.ingredient ?? null;
   const binderName = ingredient ? t(`binder.name.${ingredient}`) : null;
   const doses = summary.binders?.perOccasion ?? [];
-  const zeroBased = doses.some((d) => d.day === 0);
 
   const occasionName = (name: string) => {
     const key = OCCASION_KEYS[name.trim().toLowerCase()];
@@ -229,18 +228,16 @@ export function buildHandoutViewModel(
   const portion = (item: HandoutItem): string => {
     const g = grams(item.grams);
     const m = item.measure;
-    if (m && m.amount > 0) {
+    if (m && m.count > 0) {
       const hit = MEASURES.find(([re]) => re.test(m.description.trim()));
-      if (hit) return t('portion.withGrams', { measure: t(hit[1], { count: m.amount }), grams: g });
+      if (hit) return t('portion.withGrams', { measure: t(hit[1], { count: m.count }), grams: g });
     }
     return t('portion.grams', { grams: g });
   };
 
   const days: DayVm[] = summary.days.map((day, dayIndex) => {
     const occasions: OccasionVm[] = day.occasions.map((occ) => {
-      const dose = doses.find(
-        (d) => sameDay(d.day, dayIndex, day, zeroBased) && d.occasion === occ.name,
-      );
+      const dose = doses.find((d) => sameDay(d.day, dayIndex, day) && d.occasion === occ.name);
       let binder: OccasionVm['binder'] = null;
       if (ingredient && binderName) {
         const units = dose?.units ?? 0;
@@ -261,7 +258,7 @@ export function buildHandoutViewModel(
         absorbableMg: { low: a.low, typical: a.typical, high: a.high },
         absorbedLine: t('occasion.absorbed', { typical: mg(a.typical) }),
         items: occ.items.map((item) => ({
-          label: (item.patientLabel ?? '').trim() || item.label,
+          label: item.label,
           portion: portion(item),
           grams: item.grams,
         })),
@@ -316,11 +313,10 @@ export function buildHandoutViewModel(
   const binderLines: string[] = [];
   const prescription = summary.binders?.prescription ?? null;
   if (prescription && binderName) {
+    const firstDay = summary.days[0];
     const perDay =
-      prescription.schedule === 'per-meal'
-        ? doses
-            .filter((d) => sameDay(d.day, 0, summary.days[0] as HandoutDay, zeroBased))
-            .reduce((s, d) => s + d.units, 0)
+      prescription.schedule === 'per-meal' && firstDay
+        ? doses.filter((d) => sameDay(d.day, 0, firstDay)).reduce((s, d) => s + d.units, 0)
         : prescription.units;
     binderLines.push(t('binder.perDay', { count: perDay }));
     binderLines.push(t('binder.timing.withMeal'));
@@ -331,7 +327,7 @@ export function buildHandoutViewModel(
 
   const labelLanguage = meta.additiveLabelLanguage;
   const codes = (options.additives ?? [])
-    .filter((a) => a.counted)
+    .filter((a): a is AdditiveLabelEntry & { eNumber: string } => a.counted && !!a.eNumber)
     .map((a) => ({
       code: a.eNumber.replace(/^E\s*/i, 'E\u00a0'),
       names: labelLanguage ? [...(a.labelNames[labelLanguage] ?? [])].slice(0, 2) : [],
@@ -340,11 +336,7 @@ export function buildHandoutViewModel(
   const flagged = [
     ...new Set(
       summary.days.flatMap((d) =>
-        d.occasions.flatMap((o) =>
-          o.items
-            .filter((i) => i.additiveLikely)
-            .map((i) => (i.patientLabel ?? '').trim() || i.label),
-        ),
+        d.occasions.flatMap((o) => o.items.filter((i) => i.flags?.additive).map((i) => i.label)),
       ),
     ),
   ];
@@ -379,10 +371,10 @@ export function buildHandoutViewModel(
       locale,
     },
     header: {
-      clinicName: clinic.name,
-      clinicContact: clinic.contact,
+      clinicName: clinic.name.trim() || '\u2014',
+      clinicContact: clinic.contact.trim() || '\u2014',
       patientLabel: patient.label,
-      dietitianName: clinic.dietitianName,
+      dietitianName: clinic.dietitianName.trim() || '\u2014',
       date: dateIso,
       dateText: formatDate(locale, dateIso),
     },
@@ -403,7 +395,7 @@ export function buildHandoutViewModel(
         t('caution.medicines'),
         t('caution.symptoms'),
         t('caution.estimates'),
-        t('caution.questions', { contact: clinic.contact }),
+        ...(clinic.contact.trim() ? [t('caution.questions', { contact: clinic.contact })] : []),
       ],
     },
     fallbackKeys: [],

@@ -20,12 +20,12 @@ export function demoSummary(days = 3, itemsPerOccasion = 2, occasionsPerDay = 3)
   const names = ['Breakfast', 'Lunch', 'Dinner', 'Afternoon snack', 'Evening snack'];
   const times = ['07:30', '12:30', '19:00', '16:00', '21:00'];
   const foods = [
-    { label: 'Porridge made with water', measure: { amount: 1, description: 'cup' }, grams: 234 },
-    { label: 'Apple', measure: { amount: 1, description: 'medium (3" dia)' }, grams: 182 },
-    { label: 'Rice, boiled', measure: { amount: 0.5, description: 'cup' }, grams: 79 },
+    { label: 'Porridge made with water', measure: { count: 1, description: 'cup' }, grams: 234 },
+    { label: 'Apple', measure: { count: 1, description: 'medium (3" dia)' }, grams: 182 },
+    { label: 'Rice, boiled', measure: { count: 0.5, description: 'cup' }, grams: 79 },
     { label: 'Chicken breast, roasted', measure: null, grams: 85 },
-    { label: 'White bread', measure: { amount: 2, description: 'slice' }, grams: 50 },
-    { label: 'Processed cheese slice', measure: { amount: 1, description: 'slice' }, grams: 21 },
+    { label: 'White bread', measure: { count: 2, description: 'slice' }, grams: 50 },
+    { label: 'Processed cheese slice', measure: { count: 1, description: 'slice' }, grams: 21 },
   ];
   const summary: HandoutSummary = {
     planId: 7,
@@ -51,6 +51,7 @@ export function demoSummary(days = 3, itemsPerOccasion = 2, occasionsPerDay = 3)
     for (let o = 0; o < occasionsPerDay; o++) {
       const items = [];
       let p = 0;
+      // Invented demo numbers: 60-120 mg phosphorus per item, absorbable 40/60/80 % of it.
       for (let i = 0; i < itemsPerOccasion; i++) {
         const f = foods[(d + o * 2 + i) % foods.length]!;
         const itemP = 60 + 10 * ((d + o + i) % 7);
@@ -60,8 +61,7 @@ export function demoSummary(days = 3, itemsPerOccasion = 2, occasionsPerDay = 3)
           grams: f.grams,
           label: f.label,
           measure: f.measure,
-          additiveLikely: f.label.startsWith('Processed'),
-          nutrients: n(itemP, itemP * 0.4, itemP * 0.6, itemP * 0.8),
+          flags: { additive: f.label.startsWith('Processed') },
         });
       }
       const low = Math.round(p * 0.4);
@@ -78,10 +78,9 @@ export function demoSummary(days = 3, itemsPerOccasion = 2, occasionsPerDay = 3)
         nutrients: n(p, low, typical, high),
       });
       summary.binders!.perOccasion.push({
-        day: d + 1,
+        day: d === 1 ? 'Dialysis day' : `Day ${d + 1}`,
         occasion: names[o]!,
         units: o < 3 ? 2 : 0,
-        timing: 'with the first bites of the meal',
       });
     }
     summary.days.push({

@@ -28,6 +28,11 @@ const FILES: Record<FontFamily, Record<FontWeight, string>> = {
   },
 };
 
+/** The TTF file of a family and weight (the HTML view serves the same files the PDF embeds). */
+export function fontFile(family: FontFamily, weight: FontWeight): string {
+  return require.resolve(FILES[family][weight]);
+}
+
 /** The part of a fontkit font the layout code needs (PDFKit accepts the object itself). */
 export interface LoadedFont {
   readonly key: string;
@@ -84,7 +89,7 @@ export function getFont(family: FontFamily, weight: FontWeight): LoadedFont {
   const key = `${family}-${weight}`;
   const cached = loaded.get(key);
   if (cached) return cached;
-  const buffer = readFileSync(require.resolve(FILES[family][weight]));
+  const buffer = readFileSync(fontFile(family, weight));
   const font = memoizeLayout(fontkit.create(buffer) as fontkit.Font);
   const coverage = new Map<number, boolean>();
   const entry: LoadedFont = {

@@ -1,0 +1,152 @@
+import type { Clock } from '../clock.js';
+import type { Db } from '../db/database.js';
+import { ADDITIVE_CATALOGUE } from '../additives/catalogue.js';
+import { AppError } from '../errors.js';
+import { FoodRepository } from '../foods/foods.repository.js';
+import { localIsoDate } from '../i18n/format.js';
+import type { Languages } from '../i18n/loader.js';
+import type { LanguageStatus } from '../i18n/catalogue.js';
+import { PatientService } from '../patients/patients.service.js';
+import { settingsSource } from '../plans/plan-settings-source.js';
+import { PlanService } from '../plans/plans.service.js';
+import { SettingsService } from '../settings/settings.service.js';
+import { selectWatchAdditives } from './foods-to-watch.js';
+import type {
+  AdditiveLabelEntry,
+  HandoutClinic,
+  HandoutPatient,
+  HandoutSummary,
+  PaperSize,
+} from './handout.js';
+import { renderHandoutHtml } from './handout-html.js';
+import { renderHandoutPdf } from './handout-pdf.js';
+import { buildHandoutViewModel, type HandoutViewModel } from './view-model.js';
+
+/** Where a handout's data comes from (the database in the app; fakes in tests). */
+export interface HandoutSources {
+  summary(planId: number): Promise<HandoutSummary>;
+  patient(patientId: number): Promise<HandoutPatient>;
+  clinic(): Promise<HandoutClinic>;
+}
+
+/** The real sources: the plans service's summary, the patient record, the `clinic` setting. */
+export function handoutSourcesFromDb(db: Db, clock: Clock): HandoutSources {
+  const plans = new PlanService(
+    db.kysely,
+    clock,
+    new FoodRepository(db.kysely),
+    settingsSource(db),
+  );
+  const patients = new PatientService(db.kysely, clock);
+  const settings = new SettingsService(db, clock);
+  return {
+    summary: (planId) => plans.getSummary(planId),
+    async patient(patientId) {
+      const p = await patients.get(patientId);
+      return { label: p.label, language: p.language };
+    },
+    clinic: () => settings.get('clinic'),
+  };
+}
+
+export interface PreparedHandout {
+  vm: HandoutViewModel;
+  status: LanguageStatus;
+}
+
+const WATCH_ADDITIVES: AdditiveLabelEntry[] = selectWatchAdditives(ADDITIVE_CATALOGUE);
+
+/** Builds handouts: the language chosen (asked for, else the patient's, else English). */
+export class HandoutService {
+  constructor(
+    private readonly sources: HandoutSources,
+    private readonly languages: Languages,
+    private readonly clock: Clock,
+    private readonly timeZone?: string,
+  ) {}
+
+  /** The languages there are, with review status and missing strings (for the clinic). */
+  languageStatuses(): LanguageStatus[] {
+    return this.languages.list().map((l) => this.languages.bundle(l).status());
+  }
+
+  /**
+   * The view-model of a plan's handout. mode 'refuse' (PDF, CLI): a language missing strings is
+   * an error listing them; 'mark' (the clinic's HTML view): English stands in, marked [EN].
+   */
+  async prepare(
+    planId: number,
+    opts: { lang?: string | undefined; mode: 'refuse' | 'mark' },
+  ): Promise<PreparedHandout> {
+    const summary = await this.sources.summary(planId);
+    const [patient, clinic] = await Promise.all([
+      this.sources.patient(summary.patientId),
+      this.sources.clinic(),
+    ]);
+    const asked = opts.lang ?? patient.language ?? 'en';
+    const language = this.languages.resolve(asked);
+    if (!language) {
+      throw new AppError(
+        'PHL_HANDOUT_LANGUAGE_UNKNOWN',
+        400,
+        `no message catalogue for language '${asked}'; available: ${this.languages.list().join(', ')}`,
+        { language: asked, available: this.languages.list() },
+      );
+    }
+    const bundle = this.languages.bundle(language);
+    const built = buildHandoutViewModel(
+      summary,
+      patient,
+      clinic,
+      language,
+      bundle,
+      localIsoDate(this.clock.now(), this.timeZone),
+      { additives: WATCH_ADDITIVES, fallback: opts.mode },
+    );
+    if (!built.ok) {
+      throw new AppError(
+        'PHL_HANDOUT_LANGUAGE_INCOMPLETE',
+        422,
+        `the ${language} catalogue (templates/locales/${language}.json) lacks ${built.missingKeys.length} string(s) a handout needs: ${built.missingKeys.join(', ')}. Add them, or print in another language; the clinic view shows them in English.`,
+        { language, missingKeys: built.missingKeys },
+      );
+    }
+    return { vm: built.value, status: bundle.status() };
+  }
+
+  async pdf(planId: number, opts: { lang?: string | undefined; paper: PaperSize }) {
+    const { vm, status } = await this.prepare(planId, { lang: opts.lang, mode: 'refuse' });
+    const rendered = await renderHandoutPdf(vm, opts.paper);
+    if (rendered.missingCodePoints.length > 0 || rendered.notdefRuns > 0) {
+      const cps = rendered.missingCodePoints.map(
+        (c) => `U+${c.toString(16).toUpperCase().padStart(4, '0')}`,
+      );
+      throw new AppError(
+        'PHL_HANDOUT_GLYPHS_MISSING',
+        422,
+        `the embedded fonts cannot draw ${cps.join(' ') || 'some characters'} (language ${vm.language}); the handout would show empty boxes`,
+        { language: vm.language, codePoints: cps },
+      );
+    }
+    return {
+      bytes: rendered.bytes,
+      pageCount: rendered.pageCount,
+      language: vm.language,
+      status,
+      filename: `plan-${planId}-${vm.language}-${opts.paper}.pdf`,
+    };
+  }
+
+  async html(planId: number, opts: { lang?: string | undefined; paper: PaperSize }) {
+    const prepared = await this.prepare(planId, { lang: opts.lang, mode: 'mark' });
+    return {
+      html: renderHandoutHtml(prepared.vm, {
+        paper: opts.paper,
+        status: prepared.status,
+        planId,
+      }),
+      language: prepared.vm.language,
+      status: prepared.status,
+    };
+  }
+}

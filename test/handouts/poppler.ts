@@ -1,0 +1,15 @@
+import { execFileSync } from 'node:child_process';
+
+function has(cmd: string): boolean {
+  try {
+    execFileSync(cmd, ['-v'], { stdio: 'ignore' });
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/** pdftotext, pdffonts and pdftoppm (Debian poppler-utils; the CI script installs it). */
+export const hasPoppler = has('pdftotext') && has('pdffonts') && has('pdftoppm');
+export const POPPLER_MISSING =
+  'skipped: poppler-utils (pdftotext, pdffonts, pdftoppm) not installed';
