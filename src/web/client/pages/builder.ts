@@ -681,7 +681,7 @@ function renderContributors(): void {
             h(
               'span',
               { class: 'num' },
-              `${mg(c.absorbablePhosphorusMgTypical)} absorbable · ${Math.round(c.share * 100)} % of P`,
+              `${mg(c.absorbablePhosphorusMgTypical)} absorbable · ${Math.round(c.share * 100)} % of the day’s P`,
             ),
           ),
           h(
