@@ -46,6 +46,8 @@ export interface RouteInfo {
   url: string;
   public: boolean;
   role: Role | null;
+  /** The audit action of `config.audit`, or null when the route declares none. */
+  audit: string | null;
 }
 
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
@@ -109,13 +111,15 @@ export async function registerAuth(
   app.decorate('routeInventory', inventory);
   app.addHook('onRoute', (route) => {
     const methods = Array.isArray(route.method) ? route.method : [route.method];
-    const config = route.config as { public?: boolean; role?: Role } | undefined;
+    const config = route.config as
+      { public?: boolean; role?: Role; audit?: { action?: string } } | undefined;
     for (const method of methods) {
       inventory.push({
         method,
         url: route.url,
         public: config?.public === true,
         role: config?.role ?? null,
+        audit: config?.audit?.action ?? null,
       });
     }
   });
@@ -124,7 +128,10 @@ export async function registerAuth(
     setSecurityHeaders(request, reply);
     const config = request.routeOptions.config;
     // Unknown routes answer 404 whoever asks: nothing behind them to protect.
-    const isPublic = config?.public === true || request.is404;
+    const isPublic =
+      config?.public === true ||
+      request.is404 ||
+      (request.url.startsWith('/api/docs') && (await service.docsPublic()));
     const unsafe = !SAFE_METHODS.has(request.method);
     if (unsafe) checkOrigin(request);
 

@@ -150,6 +150,24 @@ export class AuthRepository {
     await this.db.deleteFrom('sign_in_throttle').where('key', '=', key).execute();
   }
 
+  // security options kept in the shared `setting` table under keys no settings route serves
+  async getOption(key: string): Promise<string | null> {
+    const row = await this.db
+      .selectFrom('setting')
+      .select('value_json')
+      .where('key', '=', key)
+      .executeTakeFirst();
+    return row?.value_json ?? null;
+  }
+
+  async setOption(key: string, valueJson: string, at: string): Promise<void> {
+    await this.db
+      .insertInto('setting')
+      .values({ key, value_json: valueJson, updated_at: at })
+      .onConflict((oc) => oc.column('key').doUpdateSet({ value_json: valueJson, updated_at: at }))
+      .execute();
+  }
+
   // first-run set-up
   async replaceSetupToken(tokenHash: string, at: string, expiresAt: string): Promise<void> {
     await this.db.transaction().execute(async (trx) => {

@@ -150,6 +150,37 @@ export const authRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthSe
     },
   );
 
+  api.get(
+    '/admin/docs-access',
+    {
+      config: { role: 'admin' },
+      schema: { tags: ['accounts'], summary: 'Whether /api/docs answers without sign-in' },
+    },
+    async () => ({ public: await auth.docsPublic() }),
+  );
+
+  api.put(
+    '/admin/docs-access',
+    {
+      config: { role: 'admin' },
+      schema: {
+        tags: ['accounts'],
+        summary: 'Let /api/docs (the OpenAPI description) answer without sign-in, or not',
+        body: z.object({ public: z.boolean() }),
+      },
+    },
+    async (req) => {
+      await auth.setDocsPublic(req.body.public);
+      await audit({
+        userId: req.user!.id,
+        action: 'security.docs-access',
+        entity: 'setting',
+        details: { public: req.body.public },
+      });
+      return { public: req.body.public };
+    },
+  );
+
   // user administration (admin role)
   const adminUserJson = userJsonSchema.extend({
     disabled: z.boolean(),

@@ -32,6 +32,9 @@ export interface SignedIn {
 
 export class AuthError extends AppError {}
 
+/** `setting` key (served by no settings route: only the admin route below changes it). */
+const DOCS_PUBLIC_KEY = 'security.docs-public';
+
 const invalidCredentials = () =>
   new AuthError('PHL_AUTH_INVALID_CREDENTIALS', 401, 'username or password is wrong');
 
@@ -300,6 +303,15 @@ export class AuthService {
 
   async purgeExpiredSessions(): Promise<void> {
     await this.repo.deleteExpiredSessions(this.now().toISOString());
+  }
+
+  /** Whether the admin lets the API docs (/api/docs) answer without sign-in (default: no). */
+  async docsPublic(): Promise<boolean> {
+    return (await this.repo.getOption(DOCS_PUBLIC_KEY)) === 'true';
+  }
+
+  async setDocsPublic(value: boolean): Promise<void> {
+    await this.repo.setOption(DOCS_PUBLIC_KEY, value ? 'true' : 'false', this.now().toISOString());
   }
 
   // first-run set-up

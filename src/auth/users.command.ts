@@ -1,3 +1,5 @@
+import { cliActor } from '../audit/actors.js';
+import { recordAudit } from '../audit/audit.service.js';
 import { systemClock } from '../clock.js';
 import type { Command, CommandContext } from '../cli/command.js';
 import { UsageError } from '../cli/command.js';
@@ -59,6 +61,24 @@ async function service(ctx: CommandContext): Promise<AuthService> {
   return new AuthService(await ctx.db(), systemClock, DEFAULT_AUTH_POLICY);
 }
 
+/** Account changes made from the command line are audited like those made in the app. */
+async function audit(
+  ctx: CommandContext,
+  action: string,
+  userId: number,
+  details?: Record<string, string | number | boolean | null>,
+) {
+  const actor = cliActor();
+  await recordAudit(await ctx.db(), {
+    userId: actor.userId,
+    username: actor.username,
+    action,
+    entity: 'user',
+    entityId: userId,
+    ...(details ? { details } : {}),
+  });
+}
+
 function failIfAppError(ctx: CommandContext, err: unknown): number {
   if (err instanceof AppError) {
     ctx.stderr.write(`phosledger: ${err.message} (${err.code})\n`);
@@ -84,6 +104,7 @@ export const usersAdd: Command = {
     try {
       const auth = await service(ctx);
       const user = await auth.createUser(ctx.args.positionals[0]!, role.data, password);
+      await audit(ctx, 'user.create', user.id, { role: user.role });
       ctx.stdout.write(`created ${user.role} ${user.username} (id ${user.id})\n`);
     } catch (err) {
       return failIfAppError(ctx, err);
@@ -130,6 +151,7 @@ export const usersPassword: Command = {
       const password = await readPassword(ctx);
       await auth.setPassword(user.id, password);
       const n = await auth.signOutEverywhere(user.id);
+      await audit(ctx, 'user.password-reset', user.id);
       ctx.stdout.write(`password set for ${user.username}; ${n} session(s) ended\n`);
     } catch (err) {
       return failIfAppError(ctx, err);
@@ -149,6 +171,7 @@ export const usersDisable: Command = {
       const user = await findByName(auth, ctx);
       const disabled = !ctx.args.values.enable;
       await auth.updateUser(user.id, { disabled });
+      await audit(ctx, 'user.update', user.id, { disabled });
       ctx.stdout.write(`${user.username} ${disabled ? 'disabled' : 'enabled'}\n`);
     } catch (err) {
       return failIfAppError(ctx, err);

@@ -1,6 +1,9 @@
 import { existsSync } from 'node:fs';
 import { resolve } from 'node:path';
+import { cliActor } from '../audit/actors.js';
+import { recordAudit } from '../audit/audit.service.js';
 import { systemClock } from '../clock.js';
+import { openDb } from '../db/database.js';
 import type { Command } from '../cli/command.js';
 import { backupDatabase, restoreDatabase } from './backup.js';
 
@@ -21,6 +24,14 @@ export const dbBackup: Command = {
     const file = resolve(ctx.args.positionals[0]!);
     const db = await ctx.db();
     const r = await backupDatabase(db.sqlite, file);
+    const actor = cliActor();
+    await recordAudit(db, {
+      userId: actor.userId,
+      username: actor.username,
+      action: 'db.backup',
+      entity: 'database',
+      details: { bytes: r.bytes },
+    });
     ctx.stdout.write(`backup written: ${file} (${mib(r.bytes)}, integrity ok)\n`);
   },
 };
@@ -33,6 +44,19 @@ export const dbRestore: Command = {
   async run(ctx) {
     const file = resolve(ctx.args.positionals[0]!);
     const r = await restoreDatabase(file, ctx.config.dbFile, systemClock);
+    const restored = openDb(ctx.config.dbFile);
+    try {
+      const actor = cliActor();
+      await recordAudit(restored, {
+        userId: actor.userId,
+        username: actor.username,
+        action: 'db.restore',
+        entity: 'database',
+        details: { bytes: r.bytes, safetyCopy: r.safetyCopy !== null },
+      });
+    } finally {
+      await restored.close();
+    }
     ctx.stdout.write(
       [
         `restored ${file} into ${ctx.config.dbFile} (${mib(r.bytes)}, integrity ok)`,

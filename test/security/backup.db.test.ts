@@ -163,5 +163,18 @@ describe('db backup / db restore (SQLite online backup API, integrity checked fi
     expect(r.code).toBe(0);
     const list = await cli(['users', 'list', '--json'], file);
     expect(JSON.parse(list.out).map((u: { username: string }) => u.username)).toEqual(['dana']);
+    // command-line account changes, backups and restores are audited under the OS account
+    const db = new Database(file, { readonly: true });
+    const actions = db
+      .prepare('SELECT action, username FROM audit_event ORDER BY id')
+      .all() as Array<{
+      action: string;
+      username: string;
+    }>;
+    db.close();
+    // the backup holds the log as it was when copied: dana's creation; the restore adds its own
+    // event (the db.backup event and sam's creation stay in the kept copy of the replaced file)
+    expect(actions.map((a) => a.action)).toEqual(['user.create', 'db.restore']);
+    expect(actions.every((a) => a.username.startsWith('cli:'))).toBe(true);
   });
 });

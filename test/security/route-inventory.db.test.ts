@@ -87,6 +87,25 @@ describe('route inventory: no non-public route answers without a session', () =>
     expect(leaks).toEqual([]);
   });
 
+  it('audits every route that reads or writes patient data or runs an import (45 CFR 164.312(b))', () => {
+    const PATIENT_DATA = [
+      /^\/api\/patients/,
+      /^\/api\/plans/,
+      /^\/api\/diary/,
+      /^\/api\/handouts?\/(?!languages$)/,
+      /^\/plans\/:id\/handout/,
+      /^\/api\/imports?(\/|$)/,
+    ];
+    // writes its own event inside the erasing transaction (and must not name the patient)
+    const EXEMPT = new Set(['POST /api/patients/:id/erase']);
+    const missing = routes
+      .filter((r) => r.method !== 'HEAD' && PATIENT_DATA.some((p) => p.test(r.url)))
+      .filter((r) => !r.audit && !EXEMPT.has(`${r.method} ${r.url}`))
+      .map((r) => `${r.method} ${r.url}`);
+    expect(missing).toEqual([]);
+    expect(routes.filter((r) => r.audit).length).toBeGreaterThan(15);
+  });
+
   it('answers 403 on every admin route for a dietitian', async () => {
     const leaks: string[] = [];
     for (const r of routes.filter((x) => x.role === 'admin')) {

@@ -324,3 +324,34 @@ describe('sessions over app.inject with real cookies (OWASP ASVS 4.0.3 V3)', () 
     ]);
   });
 });
+
+describe('API docs only public when the admin allows it', () => {
+  let ctx: TestContext;
+  afterEach(async () => ctx.close());
+
+  it('answers 401 on /api/docs until the admin opens it, and 403 to a dietitian trying', async () => {
+    ctx = await createTestContext({ as: 'admin' });
+    expect((await ctx.app.inject('/api/docs/json')).statusCode).toBe(401);
+    expect((await ctx.inject('/api/docs/json')).statusCode).toBe(200);
+    const dietitian = await ctx.signIn('dietitian');
+    const refused = await dietitian.inject({
+      method: 'PUT',
+      url: '/api/admin/docs-access',
+      payload: { public: true },
+    });
+    expect(refused.statusCode).toBe(403);
+    const opened = await ctx.inject({
+      method: 'PUT',
+      url: '/api/admin/docs-access',
+      payload: { public: true },
+    });
+    expect(opened.json()).toEqual({ public: true });
+    const spec = await ctx.app.inject('/api/docs/json');
+    expect(spec.statusCode).toBe(200);
+    expect(spec.json().openapi).toMatch(/^3\./);
+    // still nothing else opens with it
+    expect((await ctx.app.inject('/api/foods?q=milk')).statusCode).toBe(401);
+    await ctx.inject({ method: 'PUT', url: '/api/admin/docs-access', payload: { public: false } });
+    expect((await ctx.app.inject('/api/docs/json')).statusCode).toBe(401);
+  });
+});

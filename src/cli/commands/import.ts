@@ -1,6 +1,7 @@
 import cliProgress from 'cli-progress';
 import type { ImportIssue, ImportProgress } from '../../../data-import/importer.js';
 import { findImporter, importers } from '../../../data-import/registry.js';
+import { auditImport, cliActor } from '../../audit/actors.js';
 import { UsageError, type Command } from '../command.js';
 
 const n = (x: number) => x.toLocaleString('en-US');
@@ -66,6 +67,7 @@ export const importCommand: Command = {
       onProgress,
     });
     if (started) bar?.stop();
+    await auditImport(db, result, cliActor());
     if (ctx.args.values.json) {
       ctx.stdout.write(`${JSON.stringify(result, null, 2)}\n`);
       return result.ok ? 0 : 1;
