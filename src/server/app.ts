@@ -17,6 +17,7 @@ import { planRoutes } from '../plans/plans.routes.js';
 import { additivesRoutes } from '../additives/additives.routes.js';
 import { settingsRoutes } from '../settings/settings.routes.js';
 import { webRoutes } from '../web/web.routes.js';
+import { handoutRoutes } from '../handouts/handouts.routes.js';
 import { registerErrorHandler } from './error-handler.js';
 
 /** Everything the server needs from outside; tests pass a fresh in-memory database. */
@@ -84,6 +85,7 @@ export async function buildApp(deps: AppDeps): Promise<App> {
   await app.register(planRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(additivesRoutes, { prefix: '/api' });
   await app.register(settingsRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
+  await app.register(handoutRoutes, { db: deps.db, clock: deps.clock });
   await app.register(webRoutes);
   return app;
 }

@@ -71,8 +71,9 @@ function inkSides(pgm: Buffer, fromFrac: number, toFrac: number) {
 }
 
 describe.each(['a4', 'letter'] as const)('handout PDF on %s paper', (paper) => {
+  const poppler = hasPoppler ? '' : ` (text and font checks ${POPPLER_MISSING})`;
   it.each(langs.list())(
-    '%s: fonts embedded, no missing glyphs, 5 pages, under 1 MB',
+    `%s: fonts embedded, no missing glyphs, 5 pages, under 1 MB${poppler}`,
     async (lang) => {
       const built = buildHandoutViewModel(
         summary,
