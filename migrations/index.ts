@@ -3,6 +3,7 @@ import * as foodTables from './202612012000_food_tables.js';
 import * as accountsAudit from './202612012040_accounts_audit.js';
 import * as patientsPlans from './202612012050_patients_plans.js';
 import * as patientErasure from './202612012100_patient_erasure.js';
+import * as diaryAudits from './202612012110_diary_audits.js';
 
 /**
  * Every migration, by name (no extension, so the same database works from any runner).
@@ -13,4 +14,5 @@ export const migrations: Record<string, Migration> = {
   '202612012040_accounts_audit': accountsAudit,
   '202612012050_patients_plans': patientsPlans,
   '202612012100_patient_erasure': patientErasure,
+  '202612012110_diary_audits': diaryAudits,
 };

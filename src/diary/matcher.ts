@@ -28,6 +28,8 @@ export interface PreparedQuery {
   states: Set<string>;
   /** Folded original words (to see whether a brand is named). */
   rawWords: Set<string>;
+  /** The whole text folded (lower case, no accents). */
+  folded: string;
 }
 
 export interface ScoredFood<F extends ScorableFood = ScorableFood> {
@@ -36,6 +38,8 @@ export interface ScoredFood<F extends ScorableFood = ScorableFood> {
   /** Share of the query words found in the food's name, 0-1. */
   coverage: number;
 }
+
+const stemCache = new Map<string, string>();
 
 /** Words that carry no food meaning in a diary line (English and Spanish). */
 const STOP = new Set(
@@ -438,6 +442,16 @@ const DECAF = /\b(without caffeine|decaffeinated|caffeine free|no caffeine)\b/;
 
 /** Simple English plural stem that still prefix-matches both forms ("berries" -> "berr"). */
 export function stem(word: string): string {
+  let s = stemCache.get(word);
+  if (s === undefined) {
+    s = stemUncached(word);
+    if (stemCache.size > 50_000) stemCache.clear();
+    stemCache.set(word, s);
+  }
+  return s;
+}
+
+function stemUncached(word: string): string {
   if (word.length <= 3) return word;
   if (word.endsWith('ies')) return word.slice(0, -3);
   if (word.endsWith('oes')) return word.slice(0, -2);
@@ -496,6 +510,7 @@ export function prepareQuery(text: string): PreparedQuery {
     headWords: head.length > 0 ? head : stemmed,
     states,
     rawWords: new Set(raw),
+    folded: foldText(text),
   };
 }
 
@@ -574,30 +589,71 @@ const SPECIAL_GROUPS = new Set([
   'Restaurant Foods',
 ]);
 
+interface NameFeatures {
+  folded: string;
+  nw: string[];
+  bracketed: Set<string>;
+  segments: string[][];
+  /** The first segment is a category word ("Beverages") rather than the food. */
+  categoryFirst: boolean;
+  measureWords: string[];
+  brandPhrases: string[][];
+  brandWords: Set<string>;
+  prototypes: string[];
+}
+
+/** Name features per food object (search results are shared, so this is computed once per food). */
+const featureCache = new WeakMap<object, NameFeatures>();
+
+function features(food: ScorableFood): NameFeatures {
+  let f = featureCache.get(food);
+  if (!f) {
+    const folded = foldText(food.name);
+    const rawSegments = food.name.split(/[,;]/);
+    const phrases = brandPhrases(food.name);
+    f = {
+      folded,
+      nw: nameWords(food.name),
+      // Words in brackets only clarify ("(includes soft bread crumbs)"): they count as filler.
+      bracketed: new Set(nameWords((folded.match(/\([^)]*\)/g) ?? []).join(' '))),
+      segments: rawSegments.map((x) => nameWords(x)),
+      categoryFirst:
+        rawSegments.length > 1 && CATEGORY_HEADS.has(foldText(rawSegments[0] ?? '').trim()),
+      measureWords: nameWords((food.portions ?? []).map((p) => p.description).join(' ')),
+      brandPhrases: phrases,
+      brandWords: new Set(phrases.flat()),
+      prototypes: folded.match(PROTOTYPE) ?? [],
+    };
+    featureCache.set(food, f);
+  }
+  return f;
+}
+
 /**
  * Scores one food for a prepared query (higher is better): coverage of the query words dominates;
  * then the head of the name, fewer unrelated words, the plain generic food, the usual state.
  */
 export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
-  const folded = foldText(food.name);
-  const nw = nameWords(food.name);
-  // Words in brackets only clarify ("(includes soft bread crumbs)"): they count as filler.
-  const bracketed = new Set(nameWords((folded.match(/\([^)]*\)/g) ?? []).join(' ')));
-  const rawSegments = food.name.split(/[,;]/);
-  let segments = rawSegments.map((s) => nameWords(s));
+  const fx = features(food);
+  const { folded, nw, bracketed, measureWords, brandWords } = fx;
+  let segments = fx.segments;
   // "Beverages, tea, black" has its head after the category word.
-  if (segments.length > 1 && CATEGORY_HEADS.has(foldText(rawSegments[0] ?? '').trim())) {
+  if (fx.categoryFirst) {
     const category = segments[0] ?? [];
     if (!q.words.some((w) => category.some((n) => matchesWord(w, n)))) segments = segments.slice(1);
   }
   const first = segments[0] ?? [];
-  const measureWords = nameWords((food.portions ?? []).map((p) => p.description).join(' '));
-  const brandWords = new Set(brandPhrases(food.name).flat());
   let credit = 0;
   for (const w of q.words) {
-    let c = Math.max(0, ...nw.map((n) => wordMatch(w, n)));
+    let c = 0;
+    let plain = false;
+    for (const n of nw) {
+      const m = wordMatch(w, n);
+      if (m > c) c = m;
+      if (m === 1 && !brandWords.has(n)) plain = true;
+    }
     // A diary word found only in a brand ("taco" in "TACO BELL, Nachos") counts half.
-    if (c === 1 && !nw.some((n) => wordMatch(w, n) === 1 && !brandWords.has(n))) c = 0.5;
+    if (c === 1 && !plain) c = 0.5;
     const aliases = STATE_ALIASES[w];
     if (c < 1 && aliases && aliases.some((a) => folded.includes(a))) c = 1;
     // A word of the food's own measures ("fillet", "thigh") counts half.
@@ -609,7 +665,7 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
   // The diary's own word spelled exactly as in the name ("almonds" in "Nuts, almonds").
   for (const r of q.rawWords) if (r.length > 2 && nw.includes(r)) score += 3;
   if (food.group !== null && SPECIAL_GROUPS.has(food.group)) score -= 12;
-  const prototypes = folded.match(PROTOTYPE) ?? [];
+  const prototypes = fx.prototypes;
   score += Math.min(2, prototypes.length) * 2;
   // The name's head (before the first comma) holds a query word, and is covered by the query.
   const headHits = first.filter((n) => q.words.some((w) => matchesWord(w, n))).length;
@@ -632,13 +688,13 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
     // Special products unless asked for.
     if (SPECIAL_WORDS.has(n)) score -= 4;
   }
-  const said = (re: RegExp) => re.test(foldText(q.text));
+  const said = (re: RegExp) => re.test(q.folded);
   if (/flavou?r/.test(folded) && !said(/flavou?r/)) score -= 4;
   if (/without added vitamin/.test(folded)) score -= 3;
   // "without X" marks the special variant ("Butter, without salt"), except salt in cooked foods below.
   if (/\bwithout\b/.test(folded) && !said(/without|sin\b|unsalted|no salt/)) score -= 1.5;
   // Brands: a plain generic food first unless a brand is named (all words of it).
-  const phrases = brandPhrases(food.name);
+  const phrases = [...fx.brandPhrases];
   const owner = food.brandOwner ? words(food.brandOwner)[0] : undefined;
   if (owner) phrases.push([owner]);
   const named = (t: string) =>

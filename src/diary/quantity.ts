@@ -618,9 +618,15 @@ export function parseQuantity(text: string): QuantityResult {
   return issues.length > 0 ? { ok: false, issues } : { ok: true, value: q };
 }
 
+/** Amounts a diary writes that say no size ("a handful of", "some", "un poco de"). */
+const VAGUE_AMOUNT =
+  /^(?:an?\s+|un\s+|una\s+)?(?:handful|handfuls|pinch|splash|dash|bit|little|few|some|lots|plenty|poco|puñado|pizca|chorrito|algo|varios|varias)(?:\s+of|\s+de)?\s+/i;
+
 export interface SplitEntry {
   /** The quantity found in the text, or null (none written). */
   quantity: Quantity | null;
+  /** A vague amount that was written but says no size ("a handful of"). */
+  vague?: string;
   /** The food words once the quantity is taken out. */
   foodText: string;
 }
@@ -631,6 +637,14 @@ export interface SplitEntry {
  */
 export function splitQuantity(text: string): SplitEntry {
   const trimmed = text.trim();
+  const vague = VAGUE_AMOUNT.exec(trimmed);
+  if (vague && vague[0].length < trimmed.length) {
+    return {
+      quantity: null,
+      foodText: trimmed.slice(vague[0].length).trim(),
+      vague: vague[0].trim(),
+    };
+  }
   const folded = fold(trimmed);
   const lead = readPrefix(folded, trimmed);
   if (lead && lead.end > 0) {
@@ -776,18 +790,26 @@ function findPortion(
   return best?.p ?? null;
 }
 
+/** The food's usual single item: a "medium" measure, else its first measure that is not a weight or volume. */
+function usualItem(food: MeasuredFood): Portion | null {
+  const countLike = food.portions.filter((p) => !MASS_OR_VOLUME.test(p.description.toLowerCase()));
+  return countLike.find((p) => /^medium\b/i.test(p.description)) ?? countLike[0] ?? null;
+}
+
 /**
- * The documented default portion when no quantity is given or it is not understood: the
- * food's first household measure in its table, else its serving size, else 100 g. Marked assumed.
+ * The documented default portion when no quantity is given or it is not understood: the food's
+ * usual item (a "medium" measure, else its first count measure), else its first household measure
+ * in the table, else its serving size, else 100 g. Always marked assumed.
  */
 export function defaultPortion(food: MeasuredFood, why: string): GramsResult {
-  const first = food.portions[0];
+  const first = usualItem(food) ?? food.portions[0];
   if (first) {
+    const g = round1(gramsPerPortion(first));
     return {
-      grams: round1(gramsPerPortion(first)),
+      grams: g,
       method: 'default-portion',
       assumed: true,
-      note: `${why}; assumed 1 ${first.description} (${round1(gramsPerPortion(first))} g) from the food table`,
+      note: `${why}; assumed 1 ${first.description} (${g} g) from the food table`,
     };
   }
   if (food.servingG !== null && food.servingG > 0) {
@@ -916,7 +938,7 @@ export function quantityToGrams(
       note: `${label} x ${round1(gramsPerPortion(own))} g per '${own.description}' (food table) = ${grams} g`,
     };
   }
-  const countLike = food.portions.find((p) => !MASS_OR_VOLUME.test(p.description.toLowerCase()));
+  const countLike = usualItem(food);
   if (countLike) {
     const grams = round1(n * gramsPerPortion(countLike));
     return {

@@ -502,13 +502,14 @@ function entryFromText(
     };
   }
   const split = splitQuantity(foodCell);
+  if (split.vague) flags.push(`quantity '${split.vague}' gives no size`);
   return {
     ...base,
     text: text.trim(),
     foodText: split.foodText,
-    quantityText: split.quantity?.text ?? null,
+    quantityText: split.quantity?.text ?? split.vague ?? null,
     quantity: split.quantity,
-    quantityUnreadable: false,
+    quantityUnreadable: split.vague !== undefined,
     flags,
   };
 }

@@ -1,0 +1,378 @@
+import { sql } from 'kysely';
+import type { Clock } from '../clock.js';
+import type { Db } from '../db/database.js';
+import { AppError, BadRequestError, NotFoundError } from '../errors.js';
+import type { Food } from '../foods/food.js';
+import { FoodRepository } from '../foods/foods.repository.js';
+import { FoodService } from '../foods/foods.service.js';
+import { PatientService } from '../patients/patients.service.js';
+import { settingsSource } from '../plans/plan-settings-source.js';
+import { SwapService } from '../plans/swaps.service.js';
+import type { SummarySettings } from '../plans/summary-types.js';
+import { DiaryRepository } from './diary.repository.js';
+import {
+  buildDiaryReport,
+  unsetTargets,
+  type DiaryReport,
+  type DiarySwap,
+  type EntryMatchInput,
+} from './findings.js';
+import { memoryKey } from './matcher.js';
+import { DiaryMatcher, type FoodFinder } from './matching.service.js';
+import {
+  decodeDiaryBytes,
+  readDiary,
+  type DiaryEntryInput,
+  type DiaryFormat,
+  type DiaryIssue,
+} from './reader.js';
+
+/** One installation serves one clinic; remembered matches are kept under this clinic key. */
+export const CLINIC_KEY = 'default';
+/** Swaps are looked up for the week's top phosphorus foods and the hidden-additive foods, at most this many foods. */
+const SWAP_TOP_FOODS = 3;
+const MAX_SWAP_FOODS = 6;
+const SWAPS_PER_FOOD = 3;
+
+export interface AuditInput {
+  text?: string;
+  bytes?: Uint8Array;
+  format?: DiaryFormat | 'auto';
+  dateOrder?: 'dmy' | 'mdy';
+  patientId?: number | null;
+  userId?: number | null;
+}
+
+export interface SavedAudit {
+  id: number;
+  patientId: number | null;
+  createdAt: string;
+  updatedAt: string;
+  report: DiaryReport;
+}
+
+function readFailed(issues: DiaryIssue[]): never {
+  const first = issues[0];
+  const code = first?.code ?? 'PHL_DIARY_UNREADABLE';
+  const status = code === 'PHL_DIARY_TOO_LARGE' ? 413 : 400;
+  throw new AppError(
+    code,
+    status,
+    issues.map((i) => (i.line > 0 ? `line ${i.line}: ${i.message}` : i.message)).join('; '),
+    { issues },
+  );
+}
+
+/**
+ * Search results shared by every audit while the food tables stay the same (a diary names the
+ * same few hundred foods again and again); dropped whole when a table is imported or removed.
+ */
+const sharedSearches = new WeakMap<
+  object,
+  { stamp: string; results: Map<string, Promise<Food[]>> }
+>();
+const MAX_SHARED = 5000;
+
+export class DiaryAuditService {
+  private readonly repo: DiaryRepository;
+  private readonly foodRepo: FoodRepository;
+  private readonly foodService: FoodService;
+  private readonly patients: PatientService;
+  private readonly swaps: SwapService;
+  private readonly settings: ReturnType<typeof settingsSource>;
+
+  constructor(
+    private readonly db: Db,
+    private readonly clock: Clock,
+  ) {
+    this.repo = new DiaryRepository(db.kysely);
+    this.foodRepo = new FoodRepository(db.kysely);
+    this.foodService = new FoodService(this.foodRepo);
+    this.patients = new PatientService(db.kysely, clock);
+    this.settings = settingsSource(db);
+    this.swaps = new SwapService(db.kysely, this.foodRepo, this.settings);
+  }
+
+  private async finder(): Promise<FoodFinder> {
+    const s = await sql<{
+      stamp: string;
+    }>`select coalesce(max(id), 0) || ':' || count(*) || ':' || coalesce(sum(food_count), 0) as stamp from food_source`.execute(
+      this.db.kysely,
+    );
+    const stamp = s.rows[0]?.stamp ?? '';
+    let shared = sharedSearches.get(this.db.sqlite);
+    if (!shared || shared.stamp !== stamp || shared.results.size > MAX_SHARED) {
+      shared = { stamp, results: new Map() };
+      sharedSearches.set(this.db.sqlite, shared);
+    }
+    const results = shared.results;
+    return {
+      search: (q) => {
+        const key = `${q.limit}|${q.q}`;
+        let hit = results.get(key);
+        if (!hit) {
+          hit = this.foodService.search(q);
+          results.set(key, hit);
+          hit.catch(() => results.delete(key));
+        }
+        return hit;
+      },
+      findIdsByCode: (code) => this.foodRepo.findIdsByCode(code),
+      getFoods: (ids) => this.foodRepo.getFoods(ids),
+    };
+  }
+
+  private async summarySettings(): Promise<SummarySettings> {
+    const [absorption, thresholds] = await Promise.all([
+      this.settings.absorption(),
+      this.settings.thresholds(),
+    ]);
+    return { absorption, thresholds };
+  }
+
+  /** Matches every entry: the dietitian's choice for the line first, then the matcher. */
+  private async matchAll(
+    entries: readonly DiaryEntryInput[],
+    overrides: Readonly<Record<string, number>>,
+  ): Promise<Map<number, EntryMatchInput>> {
+    // One query for the clinic's remembered matches of every phrase in the diary.
+    const remembered = await this.repo.lookupMemory(CLINIC_KEY, [
+      ...new Set(entries.map((e) => memoryKey(e.foodText)).filter(Boolean)),
+    ]);
+    const matcher = new DiaryMatcher(await this.finder(), {
+      lookup: (keys) =>
+        Promise.resolve(
+          new Map(
+            keys.flatMap((k) => (remembered.has(k) ? [[k, remembered.get(k) as number]] : [])),
+          ),
+        ),
+    });
+    const chosenIds = Object.values(overrides);
+    const chosen = chosenIds.length > 0 ? await this.foodRepo.getFoods(chosenIds) : new Map();
+    const out = new Map<number, EntryMatchInput>();
+    for (const e of entries) {
+      const o = overrides[String(e.line)];
+      const food = o === undefined ? undefined : chosen.get(o);
+      if (food) {
+        out.set(e.line, {
+          food,
+          method: 'confirmed',
+          confidence: 1,
+          candidates: [],
+          notes: ['food chosen by the dietitian'],
+        });
+        continue;
+      }
+      out.set(e.line, await matcher.match({ foodText: e.foodText, barcode: e.barcode }));
+    }
+    return out;
+  }
+
+  private async swapsFor(report: ReturnType<typeof buildDiaryReport>): Promise<DiaryReport> {
+    const cache = new Map<number, Promise<DiarySwap | null>>();
+    const swapOf = (foodId: number): Promise<DiarySwap | null> => {
+      let p = cache.get(foodId);
+      if (!p) {
+        p = this.swaps.findSwaps(foodId, SWAPS_PER_FOOD).then(
+          (r) => ({
+            foodId: r.foodId,
+            name: r.name,
+            swaps: r.swaps.map((s) => ({
+              foodId: s.foodId,
+              name: s.name,
+              shareOfOriginal: s.shareOfOriginal,
+              additiveLikely: s.additiveLikely,
+            })),
+            rule: r.rule,
+          }),
+          (err: unknown) => {
+            if (err instanceof NotFoundError) return null;
+            throw err;
+          },
+        );
+        cache.set(foodId, p);
+      }
+      return p;
+    };
+    // Swaps for the week's biggest phosphorus sources and every hidden-additive food (bounded).
+    const totals = new Map<number, number>();
+    for (const e of report.entries) {
+      if (e.match)
+        totals.set(e.match.foodId, (totals.get(e.match.foodId) ?? 0) + (e.phosphorusMg ?? 0));
+    }
+    const top = [...totals.entries()]
+      .sort((a, b) => b[1] - a[1])
+      .slice(0, SWAP_TOP_FOODS)
+      .map(([id]) => id);
+    const hidden = report.entries
+      .filter((e) => e.hidden && e.match)
+      .map((e) => (e.match as { foodId: number }).foodId);
+    const chosen = [...new Set([...top, ...hidden])].slice(0, MAX_SWAP_FOODS);
+    const found = new Map<number, DiarySwap>();
+    for (const id of chosen) {
+      const sw = await swapOf(id);
+      if (sw && sw.swaps.length > 0) found.set(id, sw);
+    }
+    const days = report.days.map((d) => {
+      const present = new Set(
+        report.entries
+          .filter((e) => e.day === d.label && e.match)
+          .map((e) => (e.match as { foodId: number }).foodId),
+      );
+      return {
+        ...d,
+        swaps: chosen
+          .filter((id) => present.has(id) && found.has(id))
+          .map((id) => found.get(id) as DiarySwap),
+      };
+    });
+    return { ...report, days };
+  }
+
+  private async compute(
+    entries: readonly DiaryEntryInput[],
+    overrides: Readonly<Record<string, number>>,
+    patientId: number | null,
+    skipped: readonly DiaryIssue[],
+    notes: readonly DiaryIssue[],
+  ): Promise<DiaryReport> {
+    const targets = patientId === null ? unsetTargets() : await this.patients.targets(patientId);
+    const [matches, settings] = await Promise.all([
+      this.matchAll(entries, overrides),
+      this.summarySettings(),
+    ]);
+    const built = buildDiaryReport({
+      entries,
+      matches,
+      settings,
+      targets,
+      targetsSource: patientId === null ? 'none' : 'patient',
+      skipped,
+      notes,
+    });
+    return this.swapsFor(built);
+  }
+
+  /** Reads, matches and reports a diary (nothing is saved). Bad files throw clear AppErrors. */
+  async run(
+    input: AuditInput,
+  ): Promise<{ report: DiaryReport; entries: DiaryEntryInput[]; format: DiaryFormat }> {
+    let text: string;
+    const notes: DiaryIssue[] = [];
+    if (input.bytes) {
+      const decoded = decodeDiaryBytes(input.bytes);
+      if (!decoded.ok) readFailed(decoded.issues);
+      text = decoded.text;
+      notes.push(...decoded.notes);
+    } else if (typeof input.text === 'string') {
+      text = input.text;
+    } else {
+      throw new BadRequestError('PHL_DIARY_EMPTY', 'the diary is empty');
+    }
+    const read = readDiary(text, {
+      format: input.format ?? 'auto',
+      ...(input.dateOrder ? { dateOrder: input.dateOrder } : {}),
+    });
+    if (!read.ok) readFailed(read.issues);
+    const patientId = input.patientId ?? null;
+    if (patientId !== null) await this.patients.get(patientId); // 404 before any work
+    const { entries, skipped } = read.value;
+    const report = await this.compute(entries, {}, patientId, skipped, [
+      ...notes,
+      ...read.value.notes,
+    ]);
+    return { report, entries, format: read.value.format };
+  }
+
+  /** Runs an audit and saves it whole (status 'incomplete' when lines could not be read). */
+  async create(input: AuditInput): Promise<SavedAudit> {
+    const { report, entries, format } = await this.run(input);
+    const at = this.clock.now().toISOString();
+    const id = await this.repo.insert({
+      patientId: input.patientId ?? null,
+      status: report.status,
+      sourceFormat: format,
+      entryCount: report.entries.length,
+      matchedCount: report.entries.length - report.unmatched.length,
+      entriesJson: JSON.stringify({ entries, skipped: report.skipped, notes: report.notes }),
+      reportJson: JSON.stringify(report),
+      createdBy: input.userId ?? null,
+      at,
+    });
+    return { id, patientId: input.patientId ?? null, createdAt: at, updatedAt: at, report };
+  }
+
+  async get(id: number): Promise<SavedAudit> {
+    const row = await this.repo.get(id);
+    if (!row) throw new NotFoundError('diary audit', id);
+    return {
+      id: row.id,
+      patientId: row.patientId,
+      createdAt: row.createdAt,
+      updatedAt: row.updatedAt,
+      report: JSON.parse(row.reportJson) as DiaryReport,
+    };
+  }
+
+  list(patientId?: number) {
+    return this.repo.list(patientId);
+  }
+
+  patientOf(id: number): Promise<number | null> {
+    return this.repo.patientOf(id);
+  }
+
+  /**
+   * The dietitian confirms or changes the food of one line: the report is recomputed and saved,
+   * and (unless `remember` is false) the choice is remembered for the same words next time.
+   */
+  async changeMatch(
+    id: number,
+    line: number,
+    foodId: number,
+    opts: { remember: boolean; userId: number | null },
+  ): Promise<SavedAudit> {
+    const row = await this.repo.get(id);
+    if (!row) throw new NotFoundError('diary audit', id);
+    const stored = JSON.parse(row.entriesJson) as {
+      entries: DiaryEntryInput[];
+      skipped: DiaryIssue[];
+      notes: DiaryIssue[];
+    };
+    const entry = stored.entries.find((e) => e.line === line);
+    if (!entry) {
+      throw new AppError(
+        'PHL_DIARY_LINE_NOT_FOUND',
+        404,
+        `diary audit ${id} has no entry on line ${line}`,
+      );
+    }
+    const food = await this.foodRepo.getFood(foodId);
+    if (!food) throw new NotFoundError('food', foodId);
+    const overrides = {
+      ...(JSON.parse(row.overridesJson) as Record<string, number>),
+      [String(line)]: foodId,
+    };
+    const report = await this.compute(
+      stored.entries,
+      overrides,
+      row.patientId,
+      stored.skipped,
+      stored.notes,
+    );
+    const at = this.clock.now().toISOString();
+    const key = memoryKey(entry.foodText);
+    await this.repo.saveChangedMatch({
+      id,
+      overridesJson: JSON.stringify(overrides),
+      reportJson: JSON.stringify(report),
+      matchedCount: report.entries.length - report.unmatched.length,
+      at,
+      remember:
+        opts.remember && key
+          ? { clinic: CLINIC_KEY, phraseKey: key, foodId, userId: opts.userId }
+          : null,
+    });
+    return { id, patientId: row.patientId, createdAt: row.createdAt, updatedAt: at, report };
+  }
+}
