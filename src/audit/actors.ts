@@ -7,7 +7,7 @@ import { recordAudit } from './audit.service.js';
 /** Who acted, for events that come from the command line or the program itself. */
 export interface Actor {
   userId: number | null;
-  username: string;
+  username: string | null;
 }
 
 /** The operating-system account running a CLI command ("cli:<name>"). */

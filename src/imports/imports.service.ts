@@ -5,6 +5,7 @@ import type { Importer } from '../../data-import/importer.js';
 import type { Clock } from '../clock.js';
 import { openDb, type Db } from '../db/database.js';
 import { progressFraction, safeUploadName, type ImportJob } from './imports.js';
+import { auditImport } from '../audit/actors.js';
 
 /** Where the uploaded bytes go before the importer reads them. */
 export interface UploadSink {
@@ -96,6 +97,7 @@ export class ImportJobs {
         },
       });
       job.result = result;
+      await auditImport(this.db, result, { userId: null, username: job.startedBy }, this.clock);
       if (result.ok) {
         job.state = 'done';
         job.fraction = 1;
