@@ -48,6 +48,8 @@ export interface AdditiveEntry {
   pMassFraction: number | null;
   /** For families and mixtures: lowest and highest fraction of the members, computed. */
   pMassFractionRange: { min: number; max: number } | null;
+  /** Hydrates sold under the same number, with their P fraction computed from the formula. */
+  hydrates: { formula: string; pMassFraction: number }[];
   functions: string[];
   kind: AdditiveKind;
   /** Counted as additive (inorganic, well absorbed) phosphorus in renal practice. */
@@ -107,6 +109,8 @@ interface Spec {
   abbreviations?: string[];
   notes?: string;
   code?: string;
+  /** Hydrate formulas, e.g. 'Na2HPO4·12H2O' (middle dot). */
+  hydrates?: string[];
 }
 
 function entry(s: Spec): AdditiveEntry {
@@ -125,6 +129,10 @@ function entry(s: Spec): AdditiveEntry {
     formulaBasis: s.formulaBasis ?? 'anhydrous',
     pMassFraction: formula ? phosphorusMassFraction(formula) : null,
     pMassFractionRange: null,
+    hydrates: (s.hydrates ?? []).map((h) => ({
+      formula: h,
+      pMassFraction: phosphorusMassFraction(h),
+    })),
     functions: s.functions,
     kind: s.kind,
     counted: s.counted,
@@ -169,6 +177,7 @@ const SUBSTANCES: AdditiveEntry[] = [
     sub: 'i',
     chemicalName: 'Monosodium phosphate (sodium dihydrogen phosphate)',
     formula: 'NaH2PO4',
+    hydrates: ['NaH2PO4·H2O', 'NaH2PO4·2H2O'],
     functions: ['acidity regulator', 'emulsifying salt', 'moisture retention'],
     kind: S,
     counted: true,
@@ -190,6 +199,7 @@ const SUBSTANCES: AdditiveEntry[] = [
     sub: 'ii',
     chemicalName: 'Disodium phosphate (disodium hydrogen phosphate)',
     formula: 'Na2HPO4',
+    hydrates: ['Na2HPO4·2H2O', 'Na2HPO4·7H2O', 'Na2HPO4·12H2O'],
     functions: ['emulsifying salt (processed cheese)', 'acidity regulator', 'stabiliser'],
     kind: S,
     counted: true,
@@ -212,6 +222,7 @@ const SUBSTANCES: AdditiveEntry[] = [
     sub: 'iii',
     chemicalName: 'Trisodium phosphate',
     formula: 'Na3PO4',
+    hydrates: ['Na3PO4·12H2O'],
     functions: ['acidity regulator', 'emulsifying salt'],
     kind: S,
     counted: true,
@@ -296,6 +307,7 @@ const SUBSTANCES: AdditiveEntry[] = [
     sub: 'i',
     chemicalName: 'Monocalcium phosphate (calcium dihydrogen phosphate)',
     formula: 'Ca(H2PO4)2',
+    hydrates: ['Ca(H2PO4)2·H2O'],
     functions: ['leavening acid (baking powder)', 'firming agent', 'flour treatment'],
     kind: S,
     counted: true,
@@ -318,6 +330,7 @@ const SUBSTANCES: AdditiveEntry[] = [
     sub: 'ii',
     chemicalName: 'Dicalcium phosphate (calcium hydrogen phosphate)',
     formula: 'CaHPO4',
+    hydrates: ['CaHPO4·2H2O'],
     functions: ['leavening', 'anti-caking agent', 'calcium fortificant'],
     kind: S,
     counted: true,
@@ -362,6 +375,7 @@ const SUBSTANCES: AdditiveEntry[] = [
     sub: 'i',
     chemicalName: 'Monomagnesium phosphate (magnesium dihydrogen phosphate)',
     formula: 'Mg(H2PO4)2',
+    hydrates: ['Mg(H2PO4)2·4H2O'],
     functions: ['acidity regulator', 'anti-caking agent'],
     kind: S,
     counted: true,
@@ -382,6 +396,7 @@ const SUBSTANCES: AdditiveEntry[] = [
     sub: 'ii',
     chemicalName: 'Dimagnesium phosphate (magnesium hydrogen phosphate)',
     formula: 'MgHPO4',
+    hydrates: ['MgHPO4·3H2O'],
     functions: ['acidity regulator', 'anti-caking agent'],
     kind: S,
     counted: true,
@@ -508,6 +523,7 @@ const SUBSTANCES: AdditiveEntry[] = [
     sub: 'iii',
     chemicalName: 'Tetrasodium diphosphate',
     formula: 'Na4P2O7',
+    hydrates: ['Na4P2O7·10H2O'],
     functions: ['emulsifying salt', 'sequestrant', 'acidity regulator'],
     kind: S,
     counted: true,
@@ -1218,6 +1234,7 @@ function ribonucleotides(): AdditiveEntry[] {
       counted: false,
       countedReason: NOT_COUNTED_ORGANIC,
       labelNames,
+      hydrates: num === '627' || num === '631' ? [`${formula as string}·7H2O`] : [],
     }),
   );
 }
@@ -1271,6 +1288,7 @@ function familyEntry(f: FamilySpec): AdditiveEntry {
     formula: null,
     formulaBasis: 'family: see the members',
     pMassFraction: null,
+    hydrates: [],
     pMassFractionRange: rangeOf(
       members.flatMap((m) => [
         m.pMassFraction,
@@ -1409,6 +1427,7 @@ const UNSPECIFIED: AdditiveEntry = {
   formula: null,
   formulaBasis: 'not known',
   pMassFraction: null,
+  hydrates: [],
   pMassFractionRange: rangeOf(
     SUBSTANCES.filter((s) => s.kind === 'inorganic-phosphate').map((s) => s.pMassFraction),
   ),

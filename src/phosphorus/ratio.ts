@@ -1,7 +1,8 @@
 /**
  * Phosphorus-to-protein ratio (mg P per g protein) and its bands.
  *
- * Cut points 12, 14 and 16 mg/g are the category limits of Noori N et al. (CJASN 2010;5:683-692),
+ * Cut points 12, 14 and 16 mg/g are the category limits of Noori N et al. (CJASN 2010;5:683-692,
+ * doi 10.2215/CJN.08601209),
  * who found, in 224 haemodialysis patients, death hazard ratios of 1.13 (<12), 1.00 (12-<14,
  * reference), 1.80 (14-<16) and 1.99 (>=16). So: ">= 16 mg/g is high" and "14-<16 is raised"
  * have direct support; "below 12 is favourable" does not (its HR was above the reference); the

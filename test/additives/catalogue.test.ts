@@ -186,3 +186,20 @@ describe('catalogue coverage: EU list (Reg. (EC) 1333/2008 Annex II) and Codex I
     expect(misses).toEqual([]);
   });
 });
+
+describe('hydrates sold under the same number (P fraction computed from the hydrate formula)', () => {
+  it('gives less P per gram than the anhydrous salt (worked)', () => {
+    const dsp = findByCode('E 339(ii)');
+    const dodeca = dsp?.hydrates.find((h) => h.formula === 'Na2HPO4·12H2O');
+    // Na2HPO4·12H2O: 141.958 + 12 x 18.015 = 358.138 g/mol; P = 30.974 / 358.138 = 0.08649
+    expect(dodeca?.pMassFraction).toBeCloseTo(30.974 / 358.138, 5);
+    const dcp = findByCode('E 341(ii)')?.hydrates[0];
+    // CaHPO4·2H2O: 136.056 + 36.030 = 172.086 g/mol; P = 30.974 / 172.086 = 0.18000
+    expect(dcp?.pMassFraction).toBeCloseTo(0.18, 4);
+    // E 631 disodium inosinate ·7H2O: 392.172 + 126.105 = 518.277 g/mol; P = 5.98%
+    expect(findByCode('E 631')?.hydrates[0]?.pMassFraction).toBeCloseTo(30.974 / 518.277, 5);
+    for (const e of ADDITIVE_CATALOGUE)
+      for (const h of e.hydrates)
+        expect(h.pMassFraction, h.formula).toBeLessThan(e.pMassFraction as number);
+  });
+});
