@@ -186,10 +186,18 @@ export const planRoutes: FastifyPluginAsync<{ db: Db; clock: Clock }> = async (a
         querystring: versionQuery,
       },
     },
-    async (req, reply) =>
-      reply
-        .type('application/json')
-        .send(await service.getSummaryJson(req.params.id, req.query.version)),
+    async (req, reply) => {
+      // Serialised (and gzipped) once per immutable version; large plans are ~150 KB of JSON.
+      const gzip = /\bgzip\b/.test(String(req.headers['accept-encoding'] ?? ''));
+      const bytes = await service.getSummaryBytes(
+        req.params.id,
+        req.query.version,
+        gzip ? 'gzip' : 'identity',
+      );
+      reply.header('vary', 'accept-encoding').type('application/json; charset=utf-8');
+      if (gzip) reply.header('content-encoding', 'gzip');
+      return reply.send(bytes);
+    },
   );
 
   api.get(

@@ -1,3 +1,4 @@
+import { gzipSync } from 'node:zlib';
 import type { Kysely } from 'kysely';
 import type { Clock } from '../clock.js';
 import type { DB } from '../db/schema.js';
@@ -41,13 +42,20 @@ function planInvalid(issues: readonly { path: string; message: string }[]): neve
   );
 }
 
+interface SummaryEntry {
+  summary: PlanSummary;
+  json?: string;
+  bytes?: Buffer;
+  gzip?: Buffer;
+}
+
 /** Summaries kept per service (versions are immutable, so a cached summary never goes stale). */
 const SUMMARY_CACHE_SIZE = 200;
 
 export class PlanService {
   private readonly repo: PlanRepository;
   private readonly patients: PatientRepository;
-  private readonly summaries = new Map<string, { summary: PlanSummary; json?: string }>();
+  private readonly summaries = new Map<string, SummaryEntry>();
 
   constructor(
     private readonly db: Kysely<DB>,
@@ -130,6 +138,19 @@ export class PlanService {
     return entry.json;
   }
 
+  /** The serialised summary as UTF-8 bytes, and gzipped on first request for it (both cached). */
+  async getSummaryBytes(
+    planId: number,
+    version: number | undefined,
+    encoding: 'identity' | 'gzip',
+  ): Promise<Buffer> {
+    const entry = await this.cachedSummary(planId, version);
+    entry.bytes ??= Buffer.from((entry.json ??= JSON.stringify(entry.summary)), 'utf8');
+    if (encoding === 'identity') return entry.bytes;
+    entry.gzip ??= gzipSync(entry.bytes);
+    return entry.gzip;
+  }
+
   private async cachedSummary(planId: number, version?: number) {
     const header = await this.header(planId);
     const n = version ?? header.latestVersion;
@@ -138,7 +159,7 @@ export class PlanService {
     if (hit) return hit;
     const v = await this.repo.version(planId, n);
     if (!v) throw new NotFoundError('plan version', key);
-    const entry: { summary: PlanSummary; json?: string } = { summary: summarizeVersion(header, v) };
+    const entry: SummaryEntry = { summary: summarizeVersion(header, v) };
     if (this.summaries.size >= SUMMARY_CACHE_SIZE) {
       const oldest = this.summaries.keys().next().value;
       if (oldest !== undefined) this.summaries.delete(oldest);

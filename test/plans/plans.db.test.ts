@@ -1,3 +1,4 @@
+import { gunzipSync } from 'node:zlib';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import type { Food } from '../../src/foods/food.js';
 import { FoodRepository } from '../../src/foods/foods.repository.js';
@@ -423,6 +424,14 @@ describe('patients and plans over HTTP', () => {
         settingsSource(ctx.db),
       );
       expect(await fresh.getSummaryJson(created.id, 1)).toBe(v1);
+      // gzip when the client accepts it, the same JSON inside
+      const gz = await ctx.inject({
+        method: 'GET',
+        url: `/api/plans/${created.id}/summary?version=1`,
+        headers: { 'accept-encoding': 'gzip, deflate' },
+      });
+      expect(gz.headers['content-encoding']).toBe('gzip');
+      expect(gunzipSync(gz.rawPayload).toString('utf8')).toBe(v1);
       const versions = (
         await ctx.inject({ method: 'GET', url: `/api/plans/${created.id}/versions` })
       ).json();
