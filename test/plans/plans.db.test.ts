@@ -291,6 +291,14 @@ describe('patients and plans over HTTP', () => {
       // calcium acetate 667 mg x 6 = 6 x 169.01 = 1,014.1 mg elemental Ca/day
       expect(s.binders.elementalCalciumMgPerDay).toBeCloseTo(1014.1, 1);
       expect(s.binders.ingredient.spacingForListedMedicines[0].medicine).toBe('levothyroxine');
+      // swaps for each top contributor (only this test's nine foods are in the table)
+      const swaps = (
+        await ctx.inject({ method: 'GET', url: `/api/plans/${created.json().id}/swaps?limit=2` })
+      ).json();
+      expect(swaps.map((x: { contributor: { foodId: number } }) => x.contributor.foodId)).toEqual(
+        s.topContributors.map((c: { foodId: number }) => c.foodId),
+      );
+      for (const x of swaps) expect(x.swaps.swaps.length).toBeLessThanOrEqual(2);
       // JSON contract field names
       expect(Object.keys(s)).toEqual(
         expect.arrayContaining(['planId', 'patientId', 'days', 'binders']),
