@@ -47,6 +47,22 @@ export class AdditiveScanRepository {
     return rows as StatementRow[];
   }
 
+  /** Foods with a statement whose scan is missing or from another catalogue version. */
+  async countOutdated(version: string): Promise<number> {
+    const r = await this.db
+      .selectFrom('food')
+      .select((eb) => eb.fn.countAll<number>().as('n'))
+      .where('ingredients', 'is not', null)
+      .where((eb) =>
+        eb.or([
+          eb('additive_scan_version', 'is', null),
+          eb('additive_scan_version', '!=', version),
+        ]),
+      )
+      .executeTakeFirst();
+    return Number(r?.n ?? 0);
+  }
+
   async countStatements(): Promise<number> {
     const r = await this.db
       .selectFrom('food')

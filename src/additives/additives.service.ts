@@ -53,3 +53,21 @@ export async function rescanAdditives(
   }
   return result;
 }
+
+/**
+ * Start-up step: when the catalogue changed since foods were scanned, rescan them before the
+ * server answers (a no-op when every scan is current).
+ */
+export async function rescanOutdatedScans(ctx: {
+  db: Pick<Db, 'kysely'>;
+  io: { stdout: NodeJS.WritableStream };
+}): Promise<void> {
+  const outdated = await new AdditiveScanRepository(ctx.db.kysely).countOutdated(
+    ADDITIVE_CATALOGUE_VERSION,
+  );
+  if (outdated === 0) return;
+  const r = await rescanAdditives(ctx.db);
+  ctx.io.stdout.write(
+    `phosphate-additive scans brought up to catalogue ${r.catalogueVersion}: ${r.rescanned} foods rescanned\n`,
+  );
+}

@@ -10,6 +10,7 @@ import {
 } from '../auth/transport.js';
 import { importDefaultFoodTable } from '../../data-import/first-start.js';
 import { seedDemoData } from '../plans/demo-seed.js';
+import { rescanOutdatedScans } from '../additives/additives.service.js';
 import { buildApp } from './app.js';
 
 export interface ServeIo {
@@ -79,3 +80,6 @@ export function safeLogger(level: string) {
 firstStartSteps.push(async (ctx) => {
   await seedDemoData(ctx);
 });
+
+// Stored phosphate-additive scans made with an older catalogue are redone before listening.
+firstStartSteps.push(rescanOutdatedScans);

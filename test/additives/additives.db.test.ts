@@ -199,3 +199,20 @@ describe('phosledger ingredients check / rescan', () => {
     }
   });
 });
+
+describe('start-up rescan step', () => {
+  it('rescans only when some scan is outdated', async () => {
+    const { rescanOutdatedScans } = await import('../../src/additives/additives.service.js');
+    const [a] = insertFoods(ctx.db, [branded('S', 'pork, diphosphates')]) as [Food];
+    const t = io();
+    await rescanOutdatedScans({ db: ctx.db, io: t.io });
+    expect(t.out()).toMatch(/1 foods rescanned/);
+    const again = io();
+    await rescanOutdatedScans({ db: ctx.db, io: again.io });
+    expect(again.out()).toBe('');
+    const row = ctx.db.sqlite
+      .prepare('select additive_scan_version v from food where id = ?')
+      .get(a.id) as { v: string };
+    expect(row.v).toBe(ADDITIVE_CATALOGUE_VERSION);
+  });
+});
