@@ -17,6 +17,7 @@ import { planRoutes } from '../plans/plans.routes.js';
 import { diaryRoutes } from '../diary/diary.routes.js';
 import { additivesRoutes } from '../additives/additives.routes.js';
 import { settingsRoutes } from '../settings/settings.routes.js';
+import { importRoutes } from '../imports/imports.routes.js';
 import { webRoutes } from '../web/web.routes.js';
 import { handoutRoutes } from '../handouts/handouts.routes.js';
 import { registerErrorHandler } from './error-handler.js';
@@ -88,6 +89,7 @@ export async function buildApp(deps: AppDeps): Promise<App> {
   await app.register(additivesRoutes, { prefix: '/api' });
   await app.register(settingsRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(handoutRoutes, { db: deps.db, clock: deps.clock });
+  await app.register(importRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(webRoutes);
   return app;
 }

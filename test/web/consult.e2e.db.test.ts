@@ -273,7 +273,20 @@ describe.skipIf(!canRun)('consult screens in Chromium (USDA SR28 foods)', () => 
     await page.goto(`${hs.baseUrl}/imports`);
     await page.waitForSelector('#sources table');
     // Every SR28 food went in through the test helper (one source).
-    expect(await page.locator('#sources tbody tr').count()).toBeGreaterThan(0);
+    const before = await page.locator('#sources tbody tr').count();
+    expect(before).toBeGreaterThan(0);
+    // Start an import from an uploaded file (invented demo products) and follow its progress.
+    await page.selectOption('#import-format', 'products-csv');
+    await page.setInputFiles(
+      '#import-file',
+      fileURLToPath(new URL('../fixtures/import/products-mini.csv', import.meta.url)),
+    );
+    await page.click('#import-form button[type="submit"]');
+    await expect
+      .poll(() => page.locator('#import-status').textContent(), POLL)
+      .toContain('Imported');
+    expect(await page.locator('#import-progress').getAttribute('value')).toBe('100');
+    await expect.poll(() => page.locator('#sources tbody tr').count(), POLL).toBe(before + 1);
     await expectAccessible(page);
     await shot(page, '08-food-tables');
     await page.goto(`${hs.baseUrl}/settings`);

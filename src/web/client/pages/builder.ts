@@ -257,9 +257,54 @@ function flagWithTip(kind: 'additive' | 'ratio', text: string, lines: string[]):
   );
 }
 
+/** The patient's own words for the item (what the take-home sheet prints instead of the name). */
+function wordsInput(
+  day: number,
+  occ: number,
+  k: number,
+  item: DraftItem,
+  name: string,
+): HTMLElement {
+  const input = h('input', {
+    type: 'text',
+    class: 'words',
+    maxlength: '120',
+    value: item.label ?? '',
+    placeholder: 'patient’s words (optional)',
+    'aria-label': `Patient’s own words for ${name}`,
+    autocomplete: 'off',
+  });
+  const apply = () => {
+    const label = input.value.trim();
+    if ((item.label ?? '') === label) return;
+    void commit(updateItem(draft, day, occ, k, { label: label || null }));
+  };
+  input.addEventListener('change', apply);
+  input.addEventListener('keydown', (e) => {
+    if ((e as KeyboardEvent).key === 'Enter') {
+      e.preventDefault();
+      apply();
+    }
+  });
+  return h('div', {}, input);
+}
+
 function quantityCell(day: number, occ: number, k: number, item: DraftItem): HTMLElement {
   const food = foods.get(item.foodId);
-  const measures = food?.portions ?? [];
+  // Until the food's measures arrive, the item's own measure stands in for them.
+  const own = item.measure;
+  const measures: Measure[] =
+    food?.portions ??
+    (own && own.gramsPerUnit
+      ? [
+          {
+            id: own.portionId,
+            description: own.description ?? 'measure',
+            grams: own.gramsPerUnit,
+            amount: 1,
+          },
+        ]
+      : []);
   const measure = measures.find((m) => m.id === item.measure?.portionId) ?? null;
   const name = food?.name ?? `food ${item.foodId}`;
   const input = h('input', {
@@ -443,6 +488,7 @@ function renderMeals(): void {
                             `${ratio(s?.nutrients.phosphorusProteinRatioMgPerG)} phosphorus per gram of protein`,
                           ])
                         : null,
+                      wordsInput(activeDay, j, k, item, name),
                     ),
                     quantityCell(activeDay, j, k, item),
                     h('td', { class: 'n num' }, mg(s?.nutrients.phosphorusMg)),
@@ -801,6 +847,11 @@ async function loadFood(id: number, name?: string): Promise<void> {
 }
 
 async function start(): Promise<void> {
+  // The summary is asked for at once, beside the plan: the totals need no other request.
+  const summaryP = api<PlanSummary>('GET', endpoints.planSummary(planId)).then(
+    (v) => ({ ok: true as const, v }),
+    (err: unknown) => ({ ok: false as const, err }),
+  );
   try {
     plan = await api<PlanJson>('GET', endpoints.plan(planId));
   } catch (err) {
@@ -820,13 +871,15 @@ async function start(): Promise<void> {
   const ids = new Set(
     draft.days.flatMap((d) => d.occasions.flatMap((o) => o.items.map((i) => i.foodId))),
   );
-  await Promise.all([...ids].map((id) => loadFood(id)));
-  renderMeals();
+  // Household measures of the foods already in the plan arrive in the background.
+  const foodsP = Promise.all([...ids].map((id) => loadFood(id)));
   searchInput.focus();
-  try {
-    await refreshSummary();
-  } catch (err) {
-    setSaveState(`Totals unavailable: ${errorText(err)}`, true);
-  }
+  const res = await summaryP;
+  if (res.ok) summary = res.v;
+  else setSaveState(`Totals unavailable: ${errorText(res.err)}`, true);
+  renderMeals();
+  renderSide();
+  await foodsP;
+  if (!byId('day-panel').contains(document.activeElement)) renderMeals();
 }
 void start();

@@ -261,6 +261,45 @@ byId<HTMLFormElement>('lab-form').addEventListener('submit', (e) => {
   void save({ labs }, 'lab-status', 'Result added.');
 });
 
+function overridesWith(key: string, value: { min: number | null; max: number | null } | null) {
+  const current = { ...((patient?.targetOverrides ?? {}) as Record<string, unknown>) };
+  if (value) current[key] = value;
+  else delete current[key];
+  return current;
+}
+
+byId<HTMLFormElement>('target-form').addEventListener('submit', (e) => {
+  e.preventDefault();
+  const key = byId<HTMLSelectElement>('tf-key').value;
+  const read = (id: string) => {
+    const t = byId<HTMLInputElement>(id).value.trim();
+    return t === '' ? null : Number(t);
+  };
+  const min = read('tf-min');
+  const max = read('tf-max');
+  if (
+    (min === null && max === null) ||
+    (min !== null && !(min >= 0)) ||
+    (max !== null && !(max > 0))
+  ) {
+    say(
+      'target-status',
+      'Give at least one end: a number of 0 or more (at least), above 0 (at most).',
+      'error',
+    );
+    return;
+  }
+  void save(
+    { targetOverrides: overridesWith(key, { min, max }) },
+    'target-status',
+    'Target set by the dietitian.',
+  );
+});
+byId('tf-default').addEventListener('click', () => {
+  const key = byId<HTMLSelectElement>('tf-key').value;
+  void save({ targetOverrides: overridesWith(key, null) }, 'target-status', 'Back to the default.');
+});
+
 byId<HTMLFormElement>('binder-form').addEventListener('submit', (e) => {
   e.preventDefault();
   const ingredient = byId<HTMLSelectElement>('bf-ingredient').value;
