@@ -83,7 +83,8 @@ function checkOrigin(request: FastifyRequest): void {
   } catch {
     host = null;
   }
-  if (host === null || host !== request.headers.host) {
+  // request.host is the Host header, or X-Forwarded-Host behind a trusted proxy
+  if (host === null || host !== request.host) {
     throw new AppError('PHL_AUTH_CROSS_SITE', 403, 'cross-site requests are refused');
   }
 }

@@ -355,3 +355,39 @@ describe('API docs only public when the admin allows it', () => {
     expect((await ctx.app.inject('/api/docs/json')).statusCode).toBe(401);
   });
 });
+
+describe('behind a TLS proxy on loopback (PHOSLEDGER_TRUST_PROXY=1)', () => {
+  it('marks the cookie Secure from X-Forwarded-Proto and accepts the public origin', async () => {
+    const { buildApp } = await import('../../src/server/app.js');
+    const { openMemoryDb } = await import('../../src/db/database.js');
+    const { TEST_SCRYPT_PARAMS } = await import('../../src/auth/password.js');
+    const { fixedClock } = await import('../../src/clock.js');
+    const db = await openMemoryDb();
+    const app = await buildApp({
+      db,
+      clock: fixedClock('2026-03-05T09:30:00Z'), // invented fixed time
+      trustProxy: true,
+      auth: { scryptParams: TEST_SCRYPT_PARAMS },
+    });
+    try {
+      await app.auth.createUser('dana', 'dietitian', TEST_PASSWORD);
+      const res = await app.inject({
+        method: 'POST',
+        url: '/api/session',
+        headers: {
+          'x-forwarded-proto': 'https',
+          'x-forwarded-host': 'clinic.example',
+          origin: 'https://clinic.example',
+          'sec-fetch-site': 'same-origin',
+        },
+        payload: { username: 'dana', password: TEST_PASSWORD },
+      });
+      expect(res.statusCode).toBe(200);
+      expect(String(res.headers['set-cookie'])).toMatch(/; Secure/);
+      expect(res.headers['strict-transport-security']).toMatch(/max-age=31536000/);
+    } finally {
+      await app.close();
+      await db.close();
+    }
+  });
+});
