@@ -14,7 +14,7 @@ import type {
   Nutrients,
   SummarySettings,
 } from '../plans/summary-types.js';
-import { profileFood, scaleProfile } from '../phosphorus/profile.js';
+import { profileFood, scaleProfile, type PhosphorusProfile } from '../phosphorus/profile.js';
 import { memoryKey } from './matcher.js';
 import type { Candidate, MatchMethod } from './matching.service.js';
 import { defaultPortion, quantityToGrams } from './quantity.js';
@@ -151,6 +151,8 @@ export function buildDiaryReport(input: BuildInput): Omit<DiaryReport, 'days'> &
   const byDay = new Map<string, Map<string, PlanDay['occasions'][number]>>();
   const dayDates = new Map<string, string | null>();
   const dayCounts = new Map<string, { entries: number; unmatched: number }>();
+  // One profile per food (a diary repeats its foods); an entry's own statement makes a new food.
+  const profiles = new Map<Food, PhosphorusProfile>();
 
   for (const e of entries) {
     const key = dayKey(e);
@@ -204,7 +206,11 @@ export function buildDiaryReport(input: BuildInput): Omit<DiaryReport, 'days'> &
     const grams = e.quantityUnreadable
       ? defaultPortion(food, `quantity '${e.quantityText ?? ''}' not understood`)
       : quantityToGrams(e.quantity, food, entryWords);
-    const profile = profileFood(food, settings.absorption);
+    let profile = profiles.get(food);
+    if (!profile) {
+      profile = profileFood(food, settings.absorption);
+      profiles.set(food, profile);
+    }
     const scaled = scaleProfile(profile, grams.grams);
     const hidden = profile.additiveLikely && !profile.additiveEvidentFromName;
     if (grams.assumed) findings.push(`portion assumed: ${grams.note}`);

@@ -218,6 +218,14 @@ const UNIT_WORDS: [string, QuantityUnit][] = (
   ] as [string, QuantityUnit][]
 ).sort((a, b) => b[0].length - a[0].length);
 
+/** The unit words by first character (longest first within each), for a quick look-up. */
+const UNITS_BY_FIRST = new Map<string, [string, QuantityUnit][]>();
+for (const entry of UNIT_WORDS) {
+  const list = UNITS_BY_FIRST.get(entry[0][0] as string) ?? [];
+  list.push(entry);
+  UNITS_BY_FIRST.set(entry[0][0] as string, list);
+}
+
 /** Whole-number words, English and Spanish (folded). */
 const NUMBER_WORDS: Record<string, number> = {
   a: 1,
@@ -283,6 +291,8 @@ const VULGAR: Record<string, number> = {
 
 /** Lower case without accents, one output character per input character (offsets line up). */
 function fold(text: string): string {
+  // eslint-disable-next-line no-control-regex
+  if (/^[\x00-\x7f]*$/.test(text)) return text.toLowerCase();
   let out = '';
   for (let i = 0; i < text.length; i++) {
     const ch = text[i] as string;
@@ -384,13 +394,44 @@ function readAmount(c: Cursor): number | null {
   return readWordAmount(c, start);
 }
 
+const WORD_AT = /[\p{L}]+/uy;
+
+/** The word (letters) starting at the cursor after spaces, if it ends at a word boundary. */
+function peekWord(c: Cursor): string | null {
+  c.skipSpace();
+  WORD_AT.lastIndex = c.pos;
+  const m = WORD_AT.exec(c.s);
+  if (!m) return null;
+  const after = c.s[c.pos + m[0].length];
+  if (after !== undefined && /\d/.test(after)) return null;
+  return m[0];
+}
+
+/** Consumes the next word if it is in the table; returns its value. */
+function takeWord<T>(c: Cursor, table: Record<string, T>): T | undefined {
+  const save = c.pos;
+  const w = peekWord(c);
+  if (w !== null && Object.hasOwn(table, w)) {
+    c.pos += w.length;
+    return table[w];
+  }
+  c.pos = save;
+  return undefined;
+}
+
+const AND_WORDS: Record<string, true> = { and: true, y: true, e: true };
+const ARTICLES: Record<string, true> = { a: true, un: true, una: true };
+const DOZEN: Record<string, true> = { dozen: true, docena: true };
+const COUPLE: Record<string, true> = { couple: true, par: true };
+const LINKS: Record<string, true> = { a: true, an: true, of: true, de: true };
+
 /** "and a half" / "y medio" / "y media" / "and a quarter" after a whole amount. */
 function readAndFraction(c: Cursor): number | null {
   const save = c.pos;
-  if (c.word('and') || c.word('y') || c.word('e')) {
-    c.optional('a', 'un', 'una');
-    for (const [w, v] of Object.entries(FRACTION_WORDS)) if (c.word(w)) return v;
-    if (c.word('cuarto')) return 0.25;
+  if (takeWord(c, AND_WORDS)) {
+    takeWord(c, ARTICLES);
+    const v = takeWord(c, FRACTION_WORDS);
+    if (v !== undefined) return v;
   }
   c.pos = save;
   return null;
@@ -399,35 +440,22 @@ function readAndFraction(c: Cursor): number | null {
 function readWordAmount(c: Cursor, start: number): number | null {
   c.pos = start;
   // "half a", "half dozen", "media docena", "a half", "a quarter", "three quarters"
-  let base: number | null = null;
-  for (const [w, v] of Object.entries(NUMBER_WORDS)) {
-    if (c.word(w)) {
-      base = v;
-      break;
-    }
-  }
+  let base = takeWord(c, NUMBER_WORDS) ?? null;
   if (base !== null) {
-    // "a couple of", "un par de"
-    if (base === 1 && (c.word('couple') || c.word('par'))) base = 2;
-    else if (base === 1 && (c.word('dozen') || c.word('docena'))) base = 12;
-    // "a half", "three quarters", "dos tercios"
-    const save = c.pos;
-    for (const [w, v] of Object.entries(FRACTION_WORDS)) {
-      if (c.word(w)) {
-        // "half" after "a" or a number word is that many halves ("three quarters" = 0.75)
-        return base * v;
-      }
-    }
-    c.pos = save;
+    // "a couple of", "un par de", "a dozen"
+    if (base === 1 && takeWord(c, COUPLE)) base = 2;
+    else if (base === 1 && takeWord(c, DOZEN)) base = 12;
+    // "a half", "three quarters", "dos tercios": that many halves or quarters
+    const frac = takeWord(c, FRACTION_WORDS);
+    if (frac !== undefined) return base * frac;
     const more = readAndFraction(c);
     return more === null ? base : base + more;
   }
-  for (const [w, v] of Object.entries(FRACTION_WORDS)) {
-    if (c.word(w)) {
-      if (c.word('dozen') || c.word('docena')) return v * 12;
-      c.optional('a', 'an', 'of', 'de');
-      return v;
-    }
+  const frac = takeWord(c, FRACTION_WORDS);
+  if (frac !== undefined) {
+    if (takeWord(c, DOZEN)) return frac * 12;
+    takeWord(c, LINKS);
+    return frac;
   }
   c.pos = start;
   return null;
@@ -455,8 +483,9 @@ function readRangeEnd(c: Cursor): number | null {
 
 function readUnit(c: Cursor): QuantityUnit | null {
   c.skipSpace();
-  for (const [w, u] of UNIT_WORDS) {
-    const save = c.pos;
+  const candidates = UNITS_BY_FIRST.get(c.s[c.pos] ?? '');
+  if (!candidates) return null;
+  for (const [w, u] of candidates) {
     if (c.s.startsWith(w, c.pos)) {
       const after = c.s[c.pos + w.length];
       if (after === undefined || !/[\p{L}\p{N}]/u.test(after)) {
@@ -465,7 +494,6 @@ function readUnit(c: Cursor): QuantityUnit | null {
         return u;
       }
     }
-    c.pos = save;
   }
   return null;
 }

@@ -78,6 +78,8 @@ export const DIARY_CSV_COLUMNS = {
 type Column = keyof typeof DIARY_CSV_COLUMNS;
 
 function fold(text: string): string {
+  // eslint-disable-next-line no-control-regex
+  if (/^[\x00-\x7f]*$/.test(text)) return text.toLowerCase().trim();
   return text
     .normalize('NFKD')
     .replace(/\p{M}+/gu, '')

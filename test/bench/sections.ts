@@ -2,6 +2,7 @@ import { phosphorusBench } from './phosphorus.js';
 import { plansBench } from './plans.js';
 import { webBench } from './web.js';
 import { loadBench } from './load.js';
+import { diaryBench } from './diary.js';
 
 /** One benchmark section; each area adds its own file and registers it here. */
 export interface BenchSection {
@@ -15,3 +16,4 @@ sections.push(plansBench);
 sections.push(webBench);
 sections.push(phosphorusBench);
 sections.push(loadBench);
+sections.push(diaryBench);
