@@ -778,15 +778,18 @@ function scan(norm: string, tokens: Token[], hasNumbers: boolean, hasNames: bool
       const lw = lt.t;
       const cn = CATION_NOUN_RE.exec(lw);
       if (cn) {
-        cations.push({
-          cation: cationOf(cn[2] as string) as Cation,
-          mult: cn[1] ? (MULT[cn[1]] ?? null) : null,
-          idx: j,
-        });
+        let mult = cn[1] ? (MULT[cn[1]] ?? null) : null;
+        let at = j;
+        // "tri-calcium phosphate", "di-sodium phosphate"
+        if (mult === null && tok(j - 1)?.t === '-' && MULT[word(j - 2)] !== undefined) {
+          mult = MULT[word(j - 2)] ?? null;
+          at = j - 2;
+        }
+        cations.push({ cation: cationOf(cn[2] as string) as Cation, mult, idx: j });
         if (pendingConj) conjunction = true;
         pendingConj = false;
-        s = lt.s;
-        j--;
+        s = (tokens[at] as Token).s;
+        j = at - 1;
         continue;
       }
       if (lw === 'acid' || lw === 'acidic' || lw === 'saures' || lw === 'saure') {
@@ -868,6 +871,19 @@ function scan(norm: string, tokens: Token[], hasNumbers: boolean, hasNames: bool
           k++;
           continue;
         }
+      }
+      const basicity = /^(mono|di|tri)basic$/.exec(rw);
+      if (basicity && cations.length > 0) {
+        // pharmacopoeia style: "sodium phosphate, dibasic", "potassium phosphate monobasic"
+        const m = MULT[basicity[1] as string] ?? null;
+        for (const c of cations) if (c.mult === null) c.mult = m;
+        e = rt.e;
+        k++;
+        continue;
+      }
+      if (rt.t === ',' && cations.length > 0 && /^(mono|di|tri)basic$/.test(word(k + 1))) {
+        k++;
+        continue;
       }
       if (rw === 'diacide' || rw === 'diacido') {
         hydrogen = 2;

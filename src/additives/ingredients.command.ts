@@ -3,14 +3,25 @@ import { rescanAdditives } from './additives.service.js';
 import { ADDITIVE_CATALOGUE_VERSION } from './catalogue.js';
 import { analyzeIngredients } from './ingredient-parser.js';
 
+async function readAll(stream: NodeJS.ReadableStream): Promise<string> {
+  const chunks: Buffer[] = [];
+  for await (const chunk of stream)
+    chunks.push(typeof chunk === 'string' ? Buffer.from(chunk) : (chunk as Buffer));
+  return Buffer.concat(chunks).toString('utf8');
+}
+
 export const ingredientsCheck: Command = {
   path: ['ingredients', 'check'],
-  usage: '"<ingredient statement>" [--language LANG] [--json]',
+  usage: '"<ingredient statement>" | - [--language LANG] [--json]',
   summary: 'list the phosphate additives an ingredient statement names',
   minPositionals: 1,
   options: { json: { type: 'boolean' }, language: { type: 'string' } },
   async run(ctx) {
-    const text = ctx.args.positionals.join(' ');
+    // "-" reads the statement from standard input (a copied label with its line breaks).
+    const text =
+      ctx.args.positionals.length === 1 && ctx.args.positionals[0] === '-'
+        ? await readAll(ctx.stdin)
+        : ctx.args.positionals.join(' ');
     const lang = ctx.args.values.language;
     const result = analyzeIngredients(text, typeof lang === 'string' ? lang : null);
     if (ctx.args.values.json) {

@@ -180,6 +180,16 @@ describe('phosledger ingredients check / rescan', () => {
     expect(u.out()).toBe('no phosphate additives found\n');
   });
 
+  it('reads the statement from standard input with "-"', async () => {
+    const t = io();
+    t.io.stdin.end('Eau, sucre, acide phos-\nphorique\n');
+    await runCli(['ingredients', 'check', '-', '--json'], t.io);
+    const json = JSON.parse(t.out());
+    expect(
+      json.additives.map((a: { code: string; matchedText: string }) => [a.code, a.matchedText]),
+    ).toEqual([['E 338', 'acide phos-\nphorique']]);
+  });
+
   it('rescans a database file', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'phl-rescan-'));
     try {

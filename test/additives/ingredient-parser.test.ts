@@ -213,6 +213,17 @@ describe('label quirks (invented statements)', () => {
     expect(counted(text)).toEqual(['E 339(iii)']);
   });
 
+  it('reads hyphenated multiplicity and pharmacopoeia "dibasic" names', () => {
+    expect(codes('tri-calcium phosphate, di-sodium phosphate')).toEqual([
+      'E 341(iii)',
+      'E 339(ii)',
+    ]);
+    expect(codes('sodium phosphate, dibasic; potassium phosphate monobasic')).toEqual([
+      'E 339(ii)',
+      'E 340(i)',
+    ]);
+  });
+
   it('merges a name with its number written beside it', () => {
     const text = 'disodium phosphate (E339), salt';
     const r = analyzeIngredients(text).additives;
