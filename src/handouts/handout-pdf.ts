@@ -128,9 +128,7 @@ function titleBlockHeight(flow: PdfFlow, occ: OccasionVm, inner: number): number
 }
 
 function binderText(occ: OccasionVm): string {
-  return occ.binder
-    ? [occ.binder.dose + '.', ...occ.binder.timing].join(' ').replace('..', '.')
-    : '';
+  return occ.binder ? occ.binder.line : '';
 }
 
 function drawPill(flow: PdfFlow, logicalX: number, y: number): void {

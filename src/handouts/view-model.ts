@@ -50,7 +50,8 @@ export interface OccasionVm {
   absorbableMg: MgRange;
   absorbedLine: string;
   items: ItemVm[];
-  binder: { units: number; dose: string; timing: string[] } | null;
+  /** line: the dose and its timing as one sentence pair in the language's punctuation. */
+  binder: { units: number; dose: string; timing: string[]; line: string } | null;
 }
 
 export interface DayVm {
@@ -243,13 +244,13 @@ export function buildHandoutViewModel(
         const units = dose?.units ?? 0;
         binder =
           units > 0
-            ? {
-                units,
-                dose: t('binder.dose', { count: units, binder: binderName }),
+            ? (() => {
+                const dose = t('binder.dose', { count: units, binder: binderName });
                 // How to take it (chew or swallow) is said once, in the binder section.
-                timing: [t('binder.timing.withMeal')],
-              }
-            : { units: 0, dose: t('binder.none'), timing: [] };
+                const timing = t('binder.timing.withMeal');
+                return { units, dose, timing: [timing], line: t('binder.line', { dose, timing }) };
+              })()
+            : { units: 0, dose: t('binder.none'), timing: [], line: t('binder.none') };
       }
       const a = occ.nutrients.absorbablePhosphorusMg;
       return {

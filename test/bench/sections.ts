@@ -3,6 +3,7 @@ import { plansBench } from './plans.js';
 import { webBench } from './web.js';
 import { loadBench } from './load.js';
 import { diaryBench } from './diary.js';
+import { handoutsBench } from './handouts.js';
 
 /** One benchmark section; each area adds its own file and registers it here. */
 export interface BenchSection {
@@ -17,3 +18,4 @@ sections.push(webBench);
 sections.push(phosphorusBench);
 sections.push(loadBench);
 sections.push(diaryBench);
+sections.push(handoutsBench);

@@ -163,6 +163,7 @@ describe('handout view-model (invented demo data)', () => {
               "absorbedLine": "Fósforo absorbido: unos 240 mg",
               "binder": {
                 "dose": "Tome 1 tableta de carbonato de lantano",
+                "line": "Tome 1 tableta de carbonato de lantano. Tómelo con los primeros bocados de la comida.",
                 "timing": [
                   "Tómelo con los primeros bocados de la comida.",
                 ],
@@ -187,6 +188,7 @@ describe('handout view-model (invented demo data)', () => {
               "absorbedLine": "Fósforo absorbido: unos 501 mg",
               "binder": {
                 "dose": "Tome 2 tabletas de carbonato de lantano",
+                "line": "Tome 2 tabletas de carbonato de lantano. Tómelo con los primeros bocados de la comida.",
                 "timing": [
                   "Tómelo con los primeros bocados de la comida.",
                 ],
@@ -270,6 +272,7 @@ describe('handout view-model (invented demo data)', () => {
           {
             "binder": {
               "dose": "تناول قرصًا واحدًا من كربونات اللانثانوم",
+              "line": "تناول قرصًا واحدًا من كربونات اللانثانوم. تناوله مع أول لقمات الوجبة.",
               "timing": [
                 "تناوله مع أول لقمات الوجبة.",
               ],
@@ -288,6 +291,7 @@ describe('handout view-model (invented demo data)', () => {
           {
             "binder": {
               "dose": "تناول قرصين من كربونات اللانثانوم",
+              "line": "تناول قرصين من كربونات اللانثانوم. تناوله مع أول لقمات الوجبة.",
               "timing": [
                 "تناوله مع أول لقمات الوجبة.",
               ],

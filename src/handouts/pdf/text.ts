@@ -35,6 +35,8 @@ export interface TextSurface {
   fontSize(size: number): TextSurface;
   fillColor(color: string): TextSurface;
   text(text: string, x: number, y: number, options: Record<string, unknown>): unknown;
+  /** PDFKit's internal one-line drawing step, used when present (see drawLine). */
+  _fragment?(text: string, x: number, y: number, options: Record<string, unknown>): unknown;
 }
 
 const RTL_SCRIPT = /[\p{Script=Arabic}\p{Script=Hebrew}]/u;
@@ -44,6 +46,10 @@ const TOKEN =
   /[ \t\u3000]+|[\p{Script=Han}\p{Script=Hiragana}\p{Script=Katakana}][\u3001-\u303f\uff00-\uffef]*|[^ \t\u3000\p{Script=Han}\p{Script=Hiragana}\p{Script=Katakana}]+/gu;
 
 const widthCache = new Map<string, { advance: number; notdef: boolean }>();
+const measureCache = new Map<
+  string,
+  { widthPerPt: number; missing: number[]; notdefRuns: number }
+>();
 
 /** Advance width in font units per em (1 pt at size 1) and whether any glyph is .notdef. */
 function shapeWidth(family: FontFamily, weight: FontWeight, text: string) {
@@ -94,7 +100,28 @@ export class TextEngine {
 
   /** Width in points of a single-line string. */
   widthOf(text: string, style: Pick<TextStyle, 'sizePt' | 'weight'>): number {
-    return this.runs(text, style).reduce((s, r) => s + r.widthPt, 0);
+    // Widths scale with the size, so one measurement at 1 pt serves every size.
+    const key = `${this.script}|${this.direction}|${style.weight}|${text}`;
+    let hit = measureCache.get(key);
+    if (!hit) {
+      const before = new Set(this.missing);
+      const notdef = this.notdefRuns;
+      const width = this.runs(text, { sizePt: 1, weight: style.weight }).reduce(
+        (s, r) => s + r.widthPt,
+        0,
+      );
+      hit = {
+        widthPerPt: width,
+        missing: [...this.missing].filter((c) => !before.has(c)),
+        notdefRuns: this.notdefRuns - notdef,
+      };
+      if (measureCache.size > 200_000) measureCache.clear();
+      measureCache.set(key, hit);
+    } else {
+      for (const c of hit.missing) this.missing.add(c);
+      this.notdefRuns += hit.notdefRuns;
+    }
+    return hit.widthPerPt * style.sizePt;
   }
 
   /** Splits a paragraph into lines no wider than maxWidthPt (logical order). */
@@ -230,11 +257,24 @@ export class TextEngine {
     else cx = x + widthPt - total;
     for (const r of runs) {
       const key = this.use(r.family, style.weight);
-      this.surface
-        .font(key)
-        .fontSize(style.sizePt)
-        .fillColor(style.color)
-        .text(r.text, cx, baselineY, { lineBreak: false, features: [], baseline: 'alphabetic' });
+      const surface = this.surface.font(key).fontSize(style.sizePt).fillColor(style.color);
+      if (surface._fragment) {
+        // PDFKit's text() re-measures every string and runs its line wrapper; the line is already
+        // laid out, so the single-fragment step is called with the width we measured (about a
+        // third of the cost per run). Pinned to pdfkit 0.20.x; text() is the fallback.
+        surface._fragment(r.text, cx, baselineY, {
+          features: [],
+          baseline: 'alphabetic',
+          textWidth: r.widthPt,
+          wordCount: 1,
+        });
+      } else {
+        surface.text(r.text, cx, baselineY, {
+          lineBreak: false,
+          features: [],
+          baseline: 'alphabetic',
+        });
+      }
       cx += r.widthPt;
     }
     return total;
