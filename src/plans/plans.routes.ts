@@ -1,4 +1,4 @@
-import type { FastifyPluginAsync, FastifyRequest } from 'fastify';
+import type { FastifyPluginAsync, FastifyReply, FastifyRequest } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import type { Clock } from '../clock.js';
@@ -6,6 +6,7 @@ import type { Db } from '../db/database.js';
 import { FoodRepository } from '../foods/foods.repository.js';
 import '../patients/patients.routes.js';
 import { planInputSchema } from './plan.js';
+import { binderSummarySchema, planSummarySchema } from './summary.schema.js';
 import { settingsSource } from './plan-settings-source.js';
 import { PlanService, toPlanVersionJson } from './plans.service.js';
 import { SwapService } from './swaps.service.js';
@@ -184,6 +185,7 @@ export const planRoutes: FastifyPluginAsync<{ db: Db; clock: Clock }> = async (a
           'Computed from what the version froze when it was saved, so a past consult shows again exactly. Estimates only.',
         params: idParams,
         querystring: versionQuery,
+        response: { 200: planSummarySchema },
       },
     },
     async (req, reply) => {
@@ -194,9 +196,10 @@ export const planRoutes: FastifyPluginAsync<{ db: Db; clock: Clock }> = async (a
         req.query.version,
         gzip ? 'gzip' : 'identity',
       );
-      reply.header('vary', 'accept-encoding').type('application/json; charset=utf-8');
-      if (gzip) reply.header('content-encoding', 'gzip');
-      return reply.send(bytes);
+      const raw: FastifyReply = reply; // bytes of the schema's shape: Fastify sends a Buffer as is
+      raw.header('vary', 'accept-encoding').type('application/json; charset=utf-8');
+      if (gzip) raw.header('content-encoding', 'gzip');
+      return raw.send(bytes);
     },
   );
 
@@ -210,6 +213,7 @@ export const planRoutes: FastifyPluginAsync<{ db: Db; clock: Clock }> = async (a
           'The prescribed binder spread over the occasions, with reasons, timing and calcium load',
         params: idParams,
         querystring: versionQuery,
+        response: { 200: binderSummarySchema },
       },
     },
     async (req) => (await service.getSummary(req.params.id, req.query.version)).binders,

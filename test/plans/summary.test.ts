@@ -5,6 +5,7 @@ import { profileFood } from '../../src/phosphorus/profile.js';
 import { computeTargets } from '../../src/patients/targets.js';
 import { DEFAULT_THRESHOLDS } from '../../src/plans/plan-settings.js';
 import type { PlanDay } from '../../src/plans/plan.js';
+import { planSummarySchema } from '../../src/plans/summary.schema.js';
 import { summarizePlan } from '../../src/plans/summary.js';
 
 // Invented test foods (values invented, not from any table) to exercise the arithmetic.
@@ -172,5 +173,17 @@ describe('summarizePlan arithmetic (invented foods; expected values worked by ha
       'levothyroxine',
     );
     expect(withBinder.binders.elementalCalciumMgPerDay).toBe(0);
+  });
+
+  it('the OpenAPI response schema describes every field (parsing loses nothing)', () => {
+    expect(planSummarySchema.parse(s)).toEqual(s);
+    const withBinder = summarizePlan(plan, foods, targets, settings, {
+      ingredient: 'calcium-acetate',
+      unitStrengthMg: 667,
+      schedule: 'per-day',
+      units: 3,
+      otherMedicines: [],
+    });
+    expect(planSummarySchema.parse(withBinder)).toEqual(withBinder);
   });
 });

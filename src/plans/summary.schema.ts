@@ -1,0 +1,199 @@
+import { z } from 'zod';
+
+/**
+ * Response schemas of the plan summary for the OpenAPI document. They mirror
+ * `summary-types.ts`; a test parses a real summary with them and requires nothing to be lost.
+ */
+const mgRange = z.object({ low: z.number(), typical: z.number(), high: z.number() });
+const nutrientKey = z.enum([
+  'phosphorusMg',
+  'absorbablePhosphorusMg',
+  'proteinG',
+  'potassiumMg',
+  'sodiumMg',
+  'calciumMg',
+  'energyKcal',
+]);
+
+export const nutrientsSchema = z
+  .object({
+    phosphorusMg: z.number(),
+    absorbablePhosphorusMg: mgRange,
+    additivePhosphorusMg: z.number(),
+    proteinG: z.number(),
+    phosphorusProteinRatioMgPerG: z.number().nullable(),
+    potassiumMg: z.number(),
+    sodiumMg: z.number(),
+    calciumMg: z.number(),
+    energyKcal: z.number(),
+    incomplete: z
+      .array(nutrientKey)
+      .describe('nutrients some foods lack: the totals are lower bounds'),
+  })
+  .describe('mg, g and kcal; ratio in mg phosphorus per g protein');
+
+const n = z.number().nullable();
+const itemNutrientsSchema = z.object({
+  phosphorusMg: n,
+  absorbablePhosphorusMg: mgRange.nullable(),
+  additivePhosphorusMg: n,
+  proteinG: n,
+  phosphorusProteinRatioMgPerG: n,
+  potassiumMg: n,
+  sodiumMg: n,
+  calciumMg: n,
+  energyKcal: n,
+});
+
+const flags = z.object({ additive: z.boolean(), highRatio: z.boolean() });
+
+const itemSchema = z.object({
+  foodId: z.number(),
+  foodName: z.string(),
+  foodCode: z.string(),
+  source: z.string(),
+  grams: z.number(),
+  measure: z
+    .object({ portionId: z.number(), count: z.number(), description: z.string() })
+    .nullable(),
+  label: z.string(),
+  nutrients: itemNutrientsSchema,
+  splitMethod: z.string(),
+  flags,
+});
+
+const targetSchema = z.object({
+  min: n,
+  max: n,
+  unit: z.enum(['g/day', 'kcal/day', 'mg/day']),
+  perKg: z.object({ min: z.number(), max: z.number(), unit: z.string() }).nullable(),
+  setBy: z.enum(['default', 'dietitian', 'unset']),
+  source: z.string(),
+  defaultValue: z.object({ min: n, max: n }).nullable(),
+  note: z.string().nullable(),
+});
+const targetKey = z.enum(['proteinG', 'energyKcal', 'sodiumMg', 'phosphorusMg', 'potassiumMg']);
+
+const statusSchema = z.object({
+  level: z.enum(['on-target', 'attention']),
+  checks: z.array(
+    z.object({
+      target: targetKey,
+      value: z.number(),
+      min: n,
+      max: n,
+      unit: z.string(),
+      status: z.enum(['below', 'within', 'above', 'not-set']),
+      incomplete: z.boolean(),
+      message: z.string(),
+    }),
+  ),
+  messages: z.array(z.string()),
+});
+
+const contributorSchema = z.object({
+  foodId: z.number(),
+  name: z.string(),
+  phosphorusMg: z.number(),
+  absorbablePhosphorusMgTypical: z.number(),
+  share: z.number(),
+  occurrences: z.number(),
+  phosphorusProteinRatioMgPerG: n,
+  flags,
+});
+
+const spacing = z.object({ medicines: z.string(), instruction: z.string(), source: z.string() });
+
+export const binderSummarySchema = z.object({
+  prescription: z
+    .object({
+      ingredient: z.string(),
+      unitStrengthMg: z.number(),
+      schedule: z.enum(['per-day', 'per-meal']),
+      units: z.number(),
+      otherMedicines: z.array(z.string()),
+    })
+    .nullable(),
+  ingredient: z
+    .object({
+      displayName: z.string(),
+      timing: z.string(),
+      timingSource: z.string(),
+      warnings: z.array(z.string()),
+      spacing: z.array(spacing),
+      spacingForListedMedicines: z.array(
+        z.object({ medicine: z.string(), notes: z.array(spacing) }),
+      ),
+      pbedGPerUnit: n,
+      pbedSource: z.string(),
+      elementalCalciumMgPerUnit: z.number(),
+    })
+    .nullable(),
+  roundingRule: z.string(),
+  perOccasion: z.array(
+    z.object({
+      day: z.string(),
+      occasion: z.string(),
+      time: z.string().nullable(),
+      absorbablePhosphorusMgTypical: z.number(),
+      units: z.number(),
+      exactShare: n,
+      reason: z.string(),
+      timing: z.string(),
+    }),
+  ),
+  days: z.array(
+    z.object({
+      day: z.string(),
+      prescribedUnits: z.number(),
+      distributedUnits: z.number(),
+      pbedG: n,
+      elementalCalciumMgFromBinders: z.number(),
+      elementalCalciumMgTotal: z.number(),
+      disagreements: z.array(
+        z.object({ code: z.string(), occasion: z.string().nullable(), message: z.string() }),
+      ),
+    }),
+  ),
+  elementalCalciumMgPerDay: z.number(),
+  limits: z.object({ fromBindersMaxMg: z.number(), totalMaxMg: z.number(), source: z.string() }),
+  caution: z.string(),
+});
+
+export const planSummarySchema = z.object({
+  planId: z.number(),
+  patientId: z.number(),
+  version: z.number(),
+  name: z.string(),
+  days: z.array(
+    z.object({
+      label: z.string(),
+      occasions: z.array(
+        z.object({
+          name: z.string(),
+          kind: z.enum(['meal', 'snack']),
+          time: z.string().nullable(),
+          items: z.array(itemSchema),
+          nutrients: nutrientsSchema,
+        }),
+      ),
+      nutrients: nutrientsSchema,
+      targets: z.record(targetKey, targetSchema),
+      status: statusSchema,
+      topContributors: z.array(contributorSchema),
+    }),
+  ),
+  average: z.object({ nutrients: nutrientsSchema, status: statusSchema }),
+  topContributors: z.array(contributorSchema),
+  flags: z.object({
+    additiveFoods: z.array(
+      z.object({ foodId: z.number(), name: z.string(), evidence: z.array(z.string()) }),
+    ),
+    highRatioFoods: z.array(
+      z.object({ foodId: z.number(), name: z.string(), phosphorusProteinRatioMgPerG: z.number() }),
+    ),
+  }),
+  binders: binderSummarySchema,
+  thresholds: z.record(z.string(), z.number()),
+  caution: z.string(),
+});
