@@ -60,6 +60,12 @@ describe('patient data rights: export (JSON) and erasure with anonymised audit r
       });
       expect(again.statusCode).toBeLessThan(300);
       expect((await ctx.inject(`/api/patients/${id}`)).statusCode).toBe(200);
+      const diary = await ctx.inject({
+        method: 'POST',
+        url: '/api/diary-audits',
+        payload: { text: '2026-03-04 breakfast: 2 eggs, 1 slice of bread', patientId: id },
+      });
+      expect(diary.statusCode, diary.body).toBe(201);
     }
     return { erase: ids[0]!, keep: ids[1]! };
   }
@@ -76,6 +82,7 @@ describe('patient data rights: export (JSON) and erasure with anonymised audit r
     expect(body.patient.label).toBe('ERASE-ME (invented)');
     expect(body.related.plan).toHaveLength(1);
     expect(body.related.plan_version).toHaveLength(2);
+    expect(body.related.diary_audit).toHaveLength(1);
     expect(JSON.stringify(body)).not.toContain('KEEP-ME');
     expect(body.auditEvents.map((e: { action: string }) => e.action)).toContain('patient.read');
     const last = ctx.db.sqlite
@@ -110,7 +117,7 @@ describe('patient data rights: export (JSON) and erasure with anonymised audit r
       });
       expect(res.statusCode).toBe(200);
       const body = res.json();
-      expect(body.deleted).toMatchObject({ patient: 1, plan: 1, plan_version: 2 });
+      expect(body.deleted).toMatchObject({ patient: 1, plan: 1, plan_version: 2, diary_audit: 1 });
       expect(body.auditEventsAnonymised).toBe(before.n);
       const linked = ctx.db.sqlite
         .prepare('SELECT count(*) AS n FROM audit_event WHERE patient_id = ?')
