@@ -121,7 +121,7 @@ export const BINDER_CATALOGUE: Record<BinderIngredient, BinderInfo> = {
     calciumMassFraction: null,
     rpbcPerG: 0.75, // Daugirdas 2011 (HCl or carbonate)
     timing:
-      'Take with meals. Swallow tablets whole; do not crush, chew or break them (powder: mix with water as labelled).',
+      'Take with meals, starting with the first bites. Swallow tablets whole; do not crush, chew or break them (powder: mix with water as labelled).',
     timingSource:
       'US label (sevelamer carbonate): take with meals [V]; swallow whole [from memory]',
     spacing: [
@@ -143,7 +143,8 @@ export const BINDER_CATALOGUE: Record<BinderIngredient, BinderInfo> = {
     formula: null,
     calciumMassFraction: null,
     rpbcPerG: 0.75, // Daugirdas 2011 (HCl or carbonate)
-    timing: 'Take with meals. Swallow tablets whole; do not crush, chew or break them.',
+    timing:
+      'Take with meals, starting with the first bites. Swallow tablets whole; do not crush, chew or break them.',
     timingSource: 'sevelamer product information: take with meals [V]; swallow whole [from memory]',
     spacing: [
       {
@@ -193,7 +194,8 @@ export const BINDER_CATALOGUE: Record<BinderIngredient, BinderInfo> = {
     formula: null,
     calciumMassFraction: null,
     rpbcPerG: null, // iron binders were not in Daugirdas 2011
-    timing: 'Take with meals. Swallow tablets whole; do not crush or chew them.',
+    timing:
+      'Take with meals, starting with the first bites. Swallow tablets whole; do not crush or chew them.',
     timingSource: 'ferric citrate product information (secondary label summaries)',
     spacing: [
       {
@@ -216,7 +218,8 @@ export const BINDER_CATALOGUE: Record<BinderIngredient, BinderInfo> = {
     formula: null,
     calciumMassFraction: null,
     rpbcPerG: null, // iron binders were not in Daugirdas 2011
-    timing: 'Take with meals. Chew or crush the tablet; do not swallow it whole.',
+    timing:
+      'Take with meals, starting with the first bites. Chew or crush the tablet; do not swallow it whole.',
     timingSource: 'sucroferric oxyhydroxide product information (secondary label summaries)',
     spacing: [
       {
@@ -239,7 +242,7 @@ export const BINDER_CATALOGUE: Record<BinderIngredient, BinderInfo> = {
     formula: 'Al(OH)3',
     calciumMassFraction: null,
     rpbcPerG: 1.5, // Daugirdas 2011
-    timing: 'Take with meals.',
+    timing: 'Take with meals, starting with the first bites.',
     timingSource: WITH_MEALS_SOURCE,
     spacing: [
       {
@@ -260,7 +263,7 @@ export const BINDER_CATALOGUE: Record<BinderIngredient, BinderInfo> = {
     formula: 'MgCO3',
     calciumMassFraction: null,
     rpbcPerG: 1.7, // Daugirdas 2011, anhydrous; heavy/hydrated magnesium carbonate 1.3
-    timing: 'Take with meals.',
+    timing: 'Take with meals, starting with the first bites.',
     timingSource: WITH_MEALS_SOURCE,
     spacing: [
       {
