@@ -272,6 +272,7 @@ function wordsInput(
     value: item.label ?? '',
     placeholder: 'patient’s words (optional)',
     'aria-label': `Patient’s own words for ${name}`,
+    'data-focus-key': `words-${day}-${occ}-${k}`,
     autocomplete: 'off',
   });
   const apply = () => {
@@ -313,11 +314,12 @@ function quantityCell(day: number, occ: number, k: number, item: DraftItem): HTM
     step: 'any',
     value: String(measure ? (item.measure?.count ?? 1) : item.grams),
     'aria-label': `Quantity of ${name} in ${measure ? measure.description : 'grams'}`,
+    'data-focus-key': `qty-${day}-${occ}-${k}`,
     inputmode: 'decimal',
   });
   const sel = h(
     'select',
-    { 'aria-label': `Measure for ${name}` },
+    { 'aria-label': `Measure for ${name}`, 'data-focus-key': `measure-${day}-${occ}-${k}` },
     measures.map((m) =>
       h(
         'option',
@@ -425,6 +427,7 @@ function renderMeals(): void {
     return;
   }
   const sDay = summaryDay(activeDay);
+  const focusKey = (document.activeElement as HTMLElement | null)?.dataset?.focusKey;
   fill(
     panel,
     day.occasions.map((o, j) => {
@@ -503,7 +506,10 @@ function renderMeals(): void {
                           type: 'button',
                           class: 'btn btn-small btn-quiet',
                           'aria-label': `Remove ${name} from ${o.name}`,
-                          onclick: () => void commit(removeItem(draft, activeDay, j, k)),
+                          onclick: () => {
+                            void commit(removeItem(draft, activeDay, j, k));
+                            searchInput.focus();
+                          },
                         },
                         'Remove',
                       ),
@@ -515,6 +521,8 @@ function renderMeals(): void {
       );
     }),
   );
+  // Re-rendering replaces the rows: give focus back to the control that had it.
+  if (focusKey) panel.querySelector<HTMLElement>(`[data-focus-key="${focusKey}"]`)?.focus();
 }
 
 // ---- side panel: totals against targets, binder schedule, contributors and swaps -------------

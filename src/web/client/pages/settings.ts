@@ -36,6 +36,7 @@ const LABELS: Record<string, string> = {
   highRatioMgPerG: 'High phosphorus-to-protein ratio from (mg/g)',
   swapMaxShare: 'Swap must carry at most this share of the original (0–1)',
   topContributors: 'Top contributors listed (count)',
+  highRatioMinProteinGPer100g: 'High-ratio flag only from this protein (g per 100 g)',
 };
 
 function labelFor(key: string): string {
@@ -58,7 +59,7 @@ function fields(
           'fieldset',
           { class: 'subform' },
           h('legend', {}, labelFor(k)),
-          fields(v, p, sources),
+          h('div', { class: 'field-row' }, fields(v, p, sources)),
           src ? h('p', { class: 'source' }, src) : null,
         );
       }
@@ -119,13 +120,27 @@ function read(form: HTMLFormElement): Json {
   return out;
 }
 
+/** "key: text | key: text" (one source per field) into a map; null when it is one plain text. */
+function splitSources(source: string | null): Record<string, string> | null {
+  if (!source || !source.includes(' | ')) return null;
+  const out: Record<string, string> = {};
+  for (const part of source.split(' | ')) {
+    const m = /^(\w+): (.*)$/s.exec(part);
+    if (!m || !m[1] || !m[2]) return null;
+    out[m[1]] = `Default: ${m[2]}`;
+  }
+  return out;
+}
+
 function show(box: HTMLElement, s: SettingJson): void {
-  const perField = s.source && typeof s.source === 'object' ? s.source : null;
+  const perField = s.source && typeof s.source === 'object' ? s.source : splitSources(s.source);
   fill(
     box,
     s.description ? h('p', { class: 'small muted' }, s.description) : null,
     fields(s.value, [], perField),
-    typeof s.source === 'string' ? h('p', { class: 'source' }, `Defaults: ${s.source}`) : null,
+    typeof s.source === 'string' && !perField
+      ? h('p', { class: 'source' }, `Defaults: ${s.source}`)
+      : null,
     h(
       'p',
       { class: 'source' },
