@@ -8,7 +8,7 @@ import type { AbsorptionFractions } from '../phosphorus/absorption.js';
 import { PatientRepository } from '../patients/patients.repository.js';
 import { computeTargets } from '../patients/targets.js';
 import { planFoodIds, planInputSchema, resolvePlan, type PlanInput } from './plan.js';
-import type { Thresholds } from './plan-settings.js';
+import { thresholdsSchema, type Thresholds } from './plan-settings.js';
 import { PlanRepository, type PlanHeader, type PlanVersion } from './plans.repository.js';
 import { summarizePlan } from './summary.js';
 import type { PlanSummary, VersionContext } from './summary-types.js';
@@ -220,7 +220,8 @@ export function summarizeVersion(header: PlanHeader, v: PlanVersion): PlanSummar
     { planId: header.id, patientId: header.patientId, version: v.version, ...v.content },
     foods,
     v.context.targets,
-    { absorption: v.context.absorption, thresholds: v.context.thresholds },
+    // Older versions may lack thresholds added since: the schema fills their defaults.
+    { absorption: v.context.absorption, thresholds: thresholdsSchema.parse(v.context.thresholds) },
     v.context.binder,
   );
 }
