@@ -233,6 +233,7 @@ export function profileFood(
   } else if (origin === 'plant') {
     organicAnimalMg = 0;
     organicPlantMg = naturalMg;
+    // `phytateMg` of a food is phytic acid, mg per 100 g (INFOODS tag PHYTAC, as the importers store it).
     const phyticAcidMg = food.per100g.phytateMg;
     if (phyticAcidMg !== null) {
       const fromPhytate = phyticAcidMg * PHYTIC_ACID_P_FRACTION;
