@@ -59,7 +59,8 @@ export function chartSvg(chart: ChartVm, direction: 'ltr' | 'rtl'): SvgChart {
     ) * 1.05;
   const s = (v: number) => (Math.max(0, v) / maxMg) * barW;
   const X = (x: number, w = 0) => r1(direction === 'ltr' ? x : width - x - w);
-  const start = direction === 'ltr' ? 'start' : 'end';
+  // SVG text follows the page's direction, so 'start' is the right end in RTL pages.
+  const start = 'start' as const;
   const out: SvgChart = {
     title: chart.title,
     width,
