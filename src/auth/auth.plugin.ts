@@ -136,6 +136,8 @@ export async function registerAuth(
     const unsafe = !SAFE_METHODS.has(request.method);
     if (unsafe) checkOrigin(request);
 
+    // Public page shells and assets never look at the user: spare them the session lookup.
+    if (isPublic && !unsafe && !request.url.startsWith('/api/')) return;
     const token = request.cookies[SESSION_COOKIE];
     if (token) {
       const found = await service.authenticate(token);
