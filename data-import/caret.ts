@@ -29,11 +29,13 @@ export async function readCaretFile(
     for (let i = 0; i < lines.length; i++) {
       const text = lines[i] as string;
       const line = batch.first + i;
-      if (text.length === 0) continue;
+      // The end of the line, before the CR of a CRLF.
+      const end = text.charCodeAt(text.length - 1) === 13 ? text.length - 1 : text.length;
+      if (end === 0) continue;
       // Field boundaries without allocating: the 700k-line NUT_DATA has 18 fields a line.
       let count = 1;
       starts[0] = 0;
-      for (let at = text.indexOf('^'); at !== -1; at = text.indexOf('^', at + 1)) {
+      for (let at = text.indexOf('^'); at !== -1 && at < end; at = text.indexOf('^', at + 1)) {
         if (count <= fieldCount) starts[count] = at + 1;
         count++;
       }
@@ -68,7 +70,7 @@ export async function readCaretFile(
         );
         continue;
       }
-      starts[fieldCount] = text.length + 1;
+      starts[fieldCount] = end + 1;
       let ok = true;
       for (let k = 0; k < fieldCount; k++) {
         if (wanted[k] === 0) continue;

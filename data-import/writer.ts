@@ -56,7 +56,7 @@ const CORE_COLUMNS: Array<{ column: string; unit: string; tags: string[] }> = [
   { column: 'phytate_mg', unit: 'mg', tags: ['PHYTAC'] },
 ];
 
-const VALUE_BATCH = 200;
+const VALUE_BATCH = 500;
 
 const MASS_IN_G: Record<string, number> = { g: 1, mg: 1e-3, µg: 1e-6, ug: 1e-6, ng: 1e-9 };
 
@@ -85,7 +85,8 @@ export class SourceWriter {
   private readonly insValueBatch: Database.Statement;
   // Values are written VALUE_BATCH rows per statement (about 1.7x the rate of one row each).
   private readonly buf: unknown[] = [];
-  private readonly bufRefs: Array<{ file: string; line: number }> = [];
+  private readonly bufFiles: string[] = [];
+  private readonly bufLines: number[] = [];
   /** Called for a value whose food already has that nutrient in this import (row skipped). */
   onDuplicateValue: (file: string, line: number) => void = () => undefined;
   private readonly insPortion: Database.Statement;
@@ -232,13 +233,14 @@ export class SourceWriter {
     line: number,
   ): void {
     this.buf.push(foodId, defId, valuePer100g, derivationCode, sourceCode);
-    this.bufRefs.push({ file, line });
-    if (this.bufRefs.length === VALUE_BATCH) this.flushValues();
+    this.bufFiles.push(file);
+    this.bufLines.push(line);
+    if (this.bufLines.length === VALUE_BATCH) this.flushValues();
   }
 
   /** Writes buffered values; a batch that hits a duplicate is redone row by row to name it. */
   flushValues(): void {
-    const n = this.bufRefs.length;
+    const n = this.bufLines.length;
     if (n === 0) return;
     let done = false;
     if (n === VALUE_BATCH) {
@@ -258,12 +260,12 @@ export class SourceWriter {
         this.values++;
       } catch (err) {
         if ((err as { code?: string }).code !== 'SQLITE_CONSTRAINT_PRIMARYKEY') throw err;
-        const ref = this.bufRefs[i] as { file: string; line: number };
-        this.onDuplicateValue(ref.file, ref.line);
+        this.onDuplicateValue(this.bufFiles[i] as string, this.bufLines[i] as number);
       }
     }
     this.buf.length = 0;
-    this.bufRefs.length = 0;
+    this.bufFiles.length = 0;
+    this.bufLines.length = 0;
   }
 
   addPortion(foodId: number, seq: number, amount: number, description: string, grams: number) {
@@ -295,14 +297,9 @@ export class SourceWriter {
        select id, name, (select group_concat(value, ' | ') from json_each(food.alt_names)), kind
        from food where source_id = ?`,
     ).run(id);
-    const count = (sqlText: string) => (s.prepare(sqlText).get(id) as { n: number }).n;
-    const foods = count('select count(*) as n from food where source_id = ?');
-    const values = count(
-      'select count(*) as n from nutrient_value where food_id in (select id from food where source_id = ?)',
-    );
-    const portions = count(
-      'select count(*) as n from portion where food_id in (select id from food where source_id = ?)',
-    );
+    // Every value and portion of this source was written by this import (the earlier ones were
+    // removed at the start), so the counters are exact.
+    const { foods, values, portions } = this;
     s.prepare(
       `update food_source set food_count = ?, nutrient_value_count = ?, portion_count = ?,
          skipped_count = ? where id = ?`,

@@ -169,21 +169,24 @@ export class FoodRepository {
     return (await q.execute()).map((r) => r.id);
   }
 
-  /** Raw FTS candidates: ids and the fields ranking needs. `ftsQuery` is already quoted. */
+  /**
+   * FTS candidates of one kind, in index (rowid) order without bm25: ranking every match would
+   * cost time proportional to the matches (a million foods for "c"); `limit` bounds the work.
+   * `match` is an FTS5 expression over name/alt_names built from quoted words.
+   */
   async ftsCandidates(opts: {
-    ftsQuery: string;
+    match: string;
     kind: FoodKind;
     limit: number;
     source?: string | undefined;
     group?: string | undefined;
   }) {
-    const match = `kind:${opts.kind} AND {name alt_names}: (${opts.ftsQuery})`;
+    const match = `kind : ${opts.kind} AND (${opts.match})`;
     let q = this.db
       .selectFrom('food_fts')
       .innerJoin('food', 'food.id', 'food_fts.rowid')
       .select(['food.id', 'food.name', 'food.alt_names', 'food.kind', 'food.source_id'])
       .where(sql<boolean>`food_fts match ${match}`)
-      .orderBy(sql`rank`)
       .limit(opts.limit);
     if (opts.group) q = q.where('food.food_group', '=', opts.group);
     if (opts.source) {

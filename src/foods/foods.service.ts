@@ -1,16 +1,22 @@
 import type { Food, FoodSearchQuery } from './food.js';
 import type { FoodRepository } from './foods.repository.js';
-import { rankCandidates } from './search.js';
-import { ftsPrefixQuery, searchWords } from './text.js';
+import { rankCandidates, tierOf, type RankCandidate } from './search.js';
+import { ftsTierQueries, searchWords } from './text.js';
 
-/** How many FTS candidates of each kind the ranking looks at (bounded cost on large sets). */
-const GENERIC_CANDIDATES = 2000;
-const BRANDED_CANDIDATES = 300;
+/**
+ * How many FTS candidates of each kind and tier the ranking looks at: bounded work on a million
+ * branded foods, and every match of a generic table the size of SR28 for common words.
+ */
+const CANDIDATES = { generic: 1500, branded: 250 } as const;
 
 export class FoodService {
   constructor(private readonly repo: FoodRepository) {}
 
-  /** Type-ahead search: code/barcode matches first, then ranked FTS prefix matches. */
+  /**
+   * Type-ahead search: a food whose code or barcode is the text comes first, then FTS prefix
+   * matches ranked by rankCandidates (main name starts with the first word, generic before
+   * branded, shorter names first).
+   */
   async search(query: FoodSearchQuery): Promise<Food[]> {
     const ids: number[] = [];
     const text = query.q.trim();
@@ -19,33 +25,29 @@ export class FoodService {
     }
     const words = searchWords(text);
     if (words.length > 0) {
-      const fts = ftsPrefixQuery(words);
-      const generic = await this.repo.ftsCandidates({
-        ftsQuery: fts,
-        kind: 'generic',
-        limit: GENERIC_CANDIDATES,
-        source: query.source,
-        group: query.group,
-      });
-      const rankedGeneric = rankCandidates(
-        text,
-        generic.map((c, i) => ({ ...c, ftsOrder: i })),
-      );
-      for (const c of rankedGeneric) ids.push(c.id);
-      if (rankedGeneric.length < query.limit) {
-        const branded = await this.repo.ftsCandidates({
-          ftsQuery: fts,
-          kind: 'branded',
-          limit: BRANDED_CANDIDATES,
-          source: query.source,
-          group: query.group,
-        });
-        const rankedBranded = rankCandidates(
-          text,
-          branded.map((c, i) => ({ ...c, ftsOrder: i })),
-        );
-        for (const c of rankedBranded) ids.push(c.id);
+      const tiers = ftsTierQueries(words);
+      const candidates: RankCandidate[] = [];
+      for (const kind of ['generic', 'branded'] as const) {
+        const limit = CANDIDATES[kind];
+        const fetch = (match: string) =>
+          this.repo.ftsCandidates({ match, kind, limit, source: query.source, group: query.group });
+        const first = await fetch(tiers.first);
+        const rest = first.length >= limit ? [] : await fetch(tiers.any);
+        const seen = new Set<number>();
+        for (const c of [...first, ...rest]) {
+          if (seen.has(c.id)) continue;
+          seen.add(c.id);
+          candidates.push({ id: c.id, name: c.name, kind: c.kind, ftsOrder: candidates.length });
+        }
+        // Branded foods rank below generic ones of the same tier: once generic foods fill the
+        // page with main-name matches, no branded food can make it.
+        if (kind === 'generic') {
+          const ranked = rankCandidates(text, candidates);
+          const topTier = ranked.slice(0, query.limit).every((c) => tierOf(text, c) === 0);
+          if (ranked.length >= query.limit && topTier) break;
+        }
       }
+      for (const c of rankCandidates(text, candidates)) ids.push(c.id);
     }
     const top = [...new Set(ids)].slice(0, query.limit);
     const foods = await this.repo.getFoods(top);

@@ -19,17 +19,29 @@ export function rankCandidates<T extends RankCandidate>(
 ): T[] {
   const words = searchWords(query);
   const scored = candidates.map((c) => {
-    const nameWords = searchWords(c.name);
-    const first = words[0] ?? '';
-    const startsWith = nameWords[0]?.startsWith(first) ?? false;
-    const allInName = words.every((w) => nameWords.some((n) => n.startsWith(w)));
-    const tier = startsWith && allInName ? 0 : allInName ? 1 : 2;
+    const tier = tierOfWords(words, c);
     return { c, tier, kind: c.kind === 'generic' ? 0 : 1, len: c.name.length };
   });
   scored.sort(
     (a, b) => a.tier - b.tier || a.kind - b.kind || a.len - b.len || a.c.ftsOrder - b.c.ftsOrder,
   );
   return scored.map((s) => s.c);
+}
+
+/**
+ * 0: the main name starts with the first word and has every word at a word start; 1: the main
+ * name has every word at a word start; 2: otherwise (a match on alternate names only).
+ */
+export function tierOf(query: string, c: { name: string }): 0 | 1 | 2 {
+  return tierOfWords(searchWords(query), c);
+}
+
+function tierOfWords(words: readonly string[], c: { name: string }): 0 | 1 | 2 {
+  const nameWords = searchWords(c.name);
+  const first = words[0] ?? '';
+  const startsWith = nameWords[0]?.startsWith(first) ?? false;
+  const allInName = words.every((w) => nameWords.some((n) => n.startsWith(w)));
+  return startsWith && allInName ? 0 : allInName ? 1 : 2;
 }
 
 /** Phosphorus-to-protein ratio in mg P per g protein; null when protein is 0 or unknown. */

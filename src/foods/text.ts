@@ -15,3 +15,15 @@ export function searchWords(text: string): string[] {
 export function ftsPrefixQuery(words: readonly string[]): string {
   return words.map((w) => `"${w.replaceAll('"', '""')}"*`).join(' ');
 }
+
+/**
+ * FTS5 expressions for the two candidate tiers of type-ahead: `first` = the main name starts with
+ * the first word and every other word appears; `any` = every word appears in a name.
+ */
+export function ftsTierQueries(words: readonly string[]): { first: string; any: string } {
+  const [head, ...rest] = words.map((w) => `"${w.replaceAll('"', '""')}"*`);
+  const any = `{name alt_names} : (${words.map((w) => `"${w.replaceAll('"', '""')}"*`).join(' ')})`;
+  const first =
+    `name : ^ ${head ?? '""'}` + (rest.length ? ` AND {name alt_names} : (${rest.join(' ')})` : '');
+  return { first, any };
+}

@@ -1,9 +1,11 @@
+import { importBench } from './import.js';
 import { phosphorusBench } from './phosphorus.js';
+import { searchBench } from './search.js';
 import { plansBench } from './plans.js';
 import { webBench } from './web.js';
 import { loadBench } from './load.js';
-import { diaryBench } from './diary.js';
 import { handoutsBench } from './handouts.js';
+import { diaryBench } from './diary.js';
 
 /** One benchmark section; each area adds its own file and registers it here. */
 export interface BenchSection {
@@ -17,5 +19,7 @@ sections.push(plansBench);
 sections.push(webBench);
 sections.push(phosphorusBench);
 sections.push(loadBench);
-sections.push(diaryBench);
+sections.push(importBench);
 sections.push(handoutsBench);
+sections.push(diaryBench);
+sections.push(searchBench);
