@@ -48,7 +48,7 @@ const STOP = new Set(
     'home made fresh small medium large big extra glass glasses cup cups bowl mug mugs serving portion ' +
     'x of in on for to from at had ate drank about approx approximately like just also then side ' +
     'de del la el los las un una unos unas con y o al en mi mis poco para ' +
-    'vaso taza plato trozo racion porcion'
+    'vaso taza plato trozo racion porcion chunks chunk cubes cubed diced chopped bits'
   ).split(' '),
 );
 /** Words that keep their meaning even though they look like stop words in a food name. */
@@ -143,7 +143,7 @@ export const DIARY_SYNONYMS: Record<string, string> = {
   tea: 'tea',
   beer: 'beer',
   wine: 'wine',
-  'hot chocolate': 'cocoa',
+  'hot chocolate': 'cocoa mix prepared',
   cocoa: 'cocoa',
   'ice cream': 'ice creams',
   'soy milk': 'soymilk',
@@ -214,6 +214,8 @@ export const DIARY_SYNONYMS: Record<string, string> = {
   'rye bread': 'bread rye',
   'skim milk': 'milk nonfat',
   'low fat': 'lowfat',
+  'non fat': 'nonfat',
+  'fat free': 'fat-free',
   'green tea': 'tea green',
   'black coffee': 'coffee brewed',
   'instant coffee': 'coffee instant',
@@ -409,7 +411,6 @@ const SPECIAL_WORDS = new Set([
   'low',
   'reduced',
   'free',
-  'fortified',
   'unenriched',
   'imported',
   'unheated',
@@ -419,11 +420,49 @@ const SPECIAL_WORDS = new Set([
   'stabilized',
   'unsalted',
   'evaporated',
+  'meatless',
+  'goat',
+  'sheep',
+  'buffalo',
+  'human',
+  'vegan',
+  'instant',
+  'nonfat',
+  'lowfat',
+  'skim',
+  'part-skim',
+  'fat-free',
+  'whole-wheat',
+  'whole-grain',
+  'multigrain',
   'sodium',
   'lite',
   'light',
   'diet',
   'organic',
+]);
+
+/** Words after "with" that do not add another food. */
+const WITH_NEUTRAL = new Set([
+  'added',
+  'salt',
+  'skin',
+  'bone',
+  'peel',
+  'seeds',
+  'vitamin',
+  'calcium',
+  'ca',
+  'water',
+  'oil',
+  'or',
+  'and',
+  'low',
+  'reduced',
+  'sodium',
+  'no',
+  'tap',
+  'equal',
 ]);
 
 /** Describing words of food-table names that do not make a food a different variety. */
@@ -529,8 +568,16 @@ export function searchTexts(q: PreparedQuery): string[] {
   return out.slice(0, 8);
 }
 
+/** Spelling variants of food-table names brought to one word ("low fat" = "lowfat"). */
+function normaliseName(folded: string): string {
+  return folded
+    .replace(/\blow[ -]fat\b/g, 'lowfat')
+    .replace(/\bnon[ -]fat\b/g, 'nonfat')
+    .replace(/\bfat[ -]free\b/g, 'fat-free');
+}
+
 function nameWords(name: string): string[] {
-  return words(name).map((w) => w.replace(/^'+|'+$/g, ''));
+  return words(normaliseName(foldText(name))).map((w) => w.replace(/^'+|'+$/g, ''));
 }
 
 /** Brand-like phrases of a name: runs of words written in capitals ("TACO BELL", "KELLOGG'S"). */
@@ -600,6 +647,8 @@ interface NameFeatures {
   brandPhrases: string[][];
   brandWords: Set<string>;
   prototypes: string[];
+  /** Name words outside brackets. */
+  outsideBrackets: string[];
 }
 
 /** Name features per food object (search results are shared, so this is computed once per food). */
@@ -623,6 +672,7 @@ function features(food: ScorableFood): NameFeatures {
       brandPhrases: phrases,
       brandWords: new Set(phrases.flat()),
       prototypes: folded.match(PROTOTYPE) ?? [],
+      outsideBrackets: nameWords(folded.replace(/\([^)]*\)/g, ' ')),
     };
     featureCache.set(food, f);
   }
@@ -652,8 +702,10 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
       if (m > c) c = m;
       if (m === 1 && !brandWords.has(n)) plain = true;
     }
-    // A diary word found only in a brand ("taco" in "TACO BELL, Nachos") counts half.
+    // A diary word found only in a brand ("taco" in "TACO BELL, Nachos") or only in brackets
+    // ("Chicken, skin (drumsticks and thighs)") counts half.
     if (c === 1 && !plain) c = 0.5;
+    if (c === 1 && !fx.outsideBrackets.some((n) => wordMatch(w, n) === 1)) c = 0.5;
     const aliases = STATE_ALIASES[w];
     if (c < 1 && aliases && aliases.some((a) => folded.includes(a))) c = 1;
     // A word of the food's own measures ("fillet", "thigh") counts half.
@@ -689,6 +741,12 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
     if (SPECIAL_WORDS.has(n)) score -= 4;
   }
   const said = (re: RegExp) => re.test(q.folded);
+  // "with rice cereal", "with vegetables": another food added, unless the diary says so.
+  for (const m of folded.matchAll(/\bwith ([a-z]+)/g)) {
+    const w = m[1] as string;
+    if (!WITH_NEUTRAL.has(w) && !q.words.some((x) => wordMatch(x, w) === 1)) score -= 3;
+  }
+
   if (/flavou?r/.test(folded) && !said(/flavou?r/)) score -= 4;
   if (/without added vitamin/.test(folded)) score -= 3;
   // "without X" marks the special variant ("Butter, without salt"), except salt in cooked foods below.
@@ -706,6 +764,10 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
   // State: what the diary said, else the usual state for the kind of food.
   const nameStates = nw.filter((n) => STATE_WORDS.has(n));
   const cookedInName = COOKED_FAMILY.test(folded);
+  const cookedUsualFood =
+    (food.group !== null && USUALLY_COOKED_GROUPS.has(food.group)) ||
+    q.headWords.some((w) => USUALLY_COOKED_WORDS.has(w));
+  let cookedExpected = q.states.size === 0 && cookedUsualFood;
   if (q.states.size > 0) {
     let cookedAsked = false;
     for (const st of q.states) {
@@ -715,11 +777,9 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
         cookedAsked = true;
     }
     if (cookedAsked && nameStates.includes('raw')) score -= 8;
+    cookedExpected = cookedAsked;
   } else {
-    const cookedUsual =
-      (food.group !== null && USUALLY_COOKED_GROUPS.has(food.group)) ||
-      q.headWords.some((w) => USUALLY_COOKED_WORDS.has(w));
-    if (cookedUsual) {
+    if (cookedUsualFood) {
       if (cookedInName) score += 6;
       if (nameStates.includes('raw')) score -= 6;
     } else {
@@ -736,7 +796,8 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
     score -= 5;
   if (DECAF.test(folded) && !said(/decaf|caffeine/)) score -= 3;
   // Cooked vegetables and legumes are tabled without salt; "with salt" entries are derived from them.
-  if (cookedInName && /\bwithout (added )?salt\b/.test(folded) && !said(/\bsalt/)) score += 3;
+  if (cookedExpected && cookedInName && /\bwithout (added )?salt\b/.test(folded) && !said(/\bsalt/))
+    score += 3;
   // Foods with more household measures in the table are commonly eaten ones.
   score += Math.min(8, food.portions?.length ?? 0) * PORTION_WEIGHT;
   return { food, score, coverage };
