@@ -11,6 +11,7 @@ import {
 import { importDefaultFoodTable } from '../../data-import/first-start.js';
 import { seedDemoData } from '../plans/demo-seed.js';
 import { rescanOutdatedScans } from '../additives/additives.service.js';
+import { preloadFonts } from '../handouts/pdf/fonts.js';
 import { buildApp } from './app.js';
 
 export interface ServeIo {
@@ -83,3 +84,6 @@ firstStartSteps.push(async (ctx) => {
 
 // Stored phosphate-additive scans made with an older catalogue are redone before listening.
 firstStartSteps.push(rescanOutdatedScans);
+
+// Handout fonts are parsed once, before the first request, not during it.
+firstStartSteps.push(async () => preloadFonts());
