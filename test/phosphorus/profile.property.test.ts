@@ -44,7 +44,9 @@ const foodArb = fc.record({
   phytateMg: nutrient,
 });
 
-function toFood(x: fc.infer<typeof foodArb>): Food {
+type FoodInput = typeof foodArb extends fc.Arbitrary<infer T> ? T : never;
+
+function toFood(x: FoodInput): Food {
   return {
     id: 1,
     sourceId: 1,
