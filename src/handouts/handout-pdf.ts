@@ -2,7 +2,7 @@ import { IntlMessageFormat } from 'intl-messageformat';
 import { formatNumber } from '../i18n/format.js';
 import type { PaperSize } from './handout.js';
 import { drawCautionBox } from './pdf/caution.js';
-import { chartHeight, drawAbsorbableChart } from './pdf/chart.js';
+import { drawAbsorbableChart } from './pdf/chart.js';
 import { createPdfDocument, finishPdf } from './pdf/document.js';
 import { PdfFlow, type FlowSurface } from './pdf/flow.js';
 import { drawTable, type TableColumn } from './pdf/table.js';
@@ -220,11 +220,11 @@ export async function renderHandoutPdf(
   for (const day of vm.days) {
     flow.newPage();
     heading(flow, day.label ? `${day.heading}: ${day.label}` : day.heading);
-    flow.paragraph(day.totalLine, style(TYPE.body), { gapAfter: 10 });
-    for (const occ of day.occasions) drawOccasion(flow, occ);
-    flow.y += 4;
-    flow.ensure(chartHeight(flow, day.chart));
+    flow.paragraph(day.totalLine, style(TYPE.body), { gapAfter: 8 });
+    // The chart comes first so it stays with the day's heading; the meals flow after it.
     drawAbsorbableChart(flow, day.chart);
+    flow.y += 6;
+    for (const occ of day.occasions) drawOccasion(flow, occ);
   }
 
   flow.newPage();
