@@ -67,10 +67,13 @@ function readFailed(issues: DiaryIssue[]): never {
  * Search results shared by every audit while the food tables stay the same (a diary names the
  * same few hundred foods again and again); dropped whole when a table is imported or removed.
  */
-const sharedSearches = new WeakMap<
-  object,
-  { stamp: string; results: Map<string, Promise<Food[]>> }
->();
+interface SharedCache {
+  stamp: string;
+  results: Map<string, Promise<Food[]>>;
+  /** Swaps by food id and settings (they depend on the tables and the absorption settings). */
+  swaps: Map<string, Promise<DiarySwap | null>>;
+}
+const sharedSearches = new WeakMap<object, SharedCache>();
 const MAX_SHARED = 5000;
 
 export class DiaryAuditService {
@@ -93,7 +96,7 @@ export class DiaryAuditService {
     this.swaps = new SwapService(db.kysely, this.foodRepo, this.settings);
   }
 
-  private async finder(): Promise<FoodFinder> {
+  private async shared(): Promise<SharedCache> {
     const s = await sql<{
       stamp: string;
     }>`select coalesce(max(id), 0) || ':' || count(*) || ':' || coalesce(sum(food_count), 0) as stamp from food_source`.execute(
@@ -102,10 +105,14 @@ export class DiaryAuditService {
     const stamp = s.rows[0]?.stamp ?? '';
     let shared = sharedSearches.get(this.db.sqlite);
     if (!shared || shared.stamp !== stamp || shared.results.size > MAX_SHARED) {
-      shared = { stamp, results: new Map() };
+      shared = { stamp, results: new Map(), swaps: new Map() };
       sharedSearches.set(this.db.sqlite, shared);
     }
-    const results = shared.results;
+    return shared;
+  }
+
+  private async finder(): Promise<FoodFinder> {
+    const results = (await this.shared()).results;
     return {
       search: (q) => {
         const key = `${q.limit}|${q.q}`;
@@ -168,10 +175,15 @@ export class DiaryAuditService {
     return out;
   }
 
-  private async swapsFor(report: ReturnType<typeof buildDiaryReport>): Promise<DiaryReport> {
-    const cache = new Map<number, Promise<DiarySwap | null>>();
+  private async swapsFor(
+    report: ReturnType<typeof buildDiaryReport>,
+    settings: SummarySettings,
+  ): Promise<DiaryReport> {
+    const cache = (await this.shared()).swaps;
+    const settingsKey = JSON.stringify(settings);
     const swapOf = (foodId: number): Promise<DiarySwap | null> => {
-      let p = cache.get(foodId);
+      const key = `${foodId}|${settingsKey}`;
+      let p = cache.get(key);
       if (!p) {
         p = this.swaps.findSwaps(foodId, SWAPS_PER_FOOD).then(
           (r) => ({
@@ -190,7 +202,8 @@ export class DiaryAuditService {
             throw err;
           },
         );
-        cache.set(foodId, p);
+        cache.set(key, p);
+        p.catch(() => cache.delete(key));
       }
       return p;
     };
@@ -250,7 +263,7 @@ export class DiaryAuditService {
       skipped,
       notes,
     });
-    return this.swapsFor(built);
+    return this.swapsFor(built, settings);
   }
 
   /** Reads, matches and reports a diary (nothing is saved). Bad files throw clear AppErrors. */
