@@ -64,7 +64,7 @@ export interface AdditiveEntry {
 }
 
 /** Bumped whenever entries, names or matching rules change; stored beside each food's scan. */
-export const ADDITIVE_CATALOGUE_VERSION = '2026-12-01.1';
+export const ADDITIVE_CATALOGUE_VERSION = '2026-12-01.2';
 
 const COUNTED_INORGANIC =
   'inorganic phosphate: counted as additive phosphorus, absorbed almost completely ' +

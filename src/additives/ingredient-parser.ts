@@ -1097,8 +1097,18 @@ function denied(norm: string, s: number, e: number): boolean {
   let m: RegExpExecArray | null;
   while ((m = NEGATION_RE.exec(clause)) !== null) {
     const between = clause.slice(m.index + m[0].length);
+    // "contains no more than 2% of: salt, sodium phosphate" is an amount, not a denial.
+    if (
+      /^\s*(more|less)\s+than\b|^\s*(mas|m[aá]s|plus|mehr|pi[uù]|mais)\s+(de|que|di|als)\b/.test(
+        between,
+      )
+    )
+      continue;
+    // Only a denial right before the additive counts ("no added phosphates", "ohne zugesetzte
+    // Phosphate"); a longer gap is more likely a list that merely follows a claim, and missing an
+    // additive is worse for the patient than flagging one.
     const words = between.split(/[\s,/]+/).filter(Boolean);
-    if (words.length <= 6) return true;
+    if (words.length <= 2) return true;
   }
   return false;
 }

@@ -286,6 +286,14 @@ describe('traps that must not fire (invented statements)', () => {
     expect(codes(text)).toEqual([]);
   });
 
+  it('"no more than 2%" is an amount, not a denial; a claim far before the additive does not hide it', () => {
+    expect(codes('Pork, water, contains no more than 2% of salt, sodium phosphate')).toEqual([
+      'E 339',
+    ]);
+    expect(codes('Cerdo, agua, sin más de 2% de sal, fosfatos de sodio')).toEqual(['E 339']);
+    expect(codes('No added sugar, salt, sodium phosphate')).toEqual(['E 339']);
+  });
+
   it('a negation covers its own clause only', () => {
     expect(codes('No added sugar. Ingredients: pork, salt, sodium phosphate')).toEqual(['E 339']);
     expect(codes('no preservatives; stabiliser: diphosphates')).toEqual(['E 450']);
