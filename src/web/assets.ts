@@ -36,8 +36,8 @@ function asset(body: Buffer, contentType: string): Asset {
 let cached: Promise<AssetMap> | undefined;
 
 /**
- * Bundles every page module with esbuild in memory (once per process: about 100 ms), with code
- * shared between pages split into chunks, minified, targeting current browsers. Nothing is
+ * Bundles every page module with esbuild in memory (once per process: about 100 ms), one file
+ * per screen, minified, targeting current browsers. Nothing is
  * written to disk and nothing is fetched from the network at run time.
  */
 export function loadAssets(): Promise<AssetMap> {
@@ -49,13 +49,14 @@ async function bundleAssets(): Promise<AssetMap> {
   const result = await build({
     entryPoints: PAGE_MODULES.map((p) => `${CLIENT_DIR}pages/${p}.ts`),
     bundle: true,
-    splitting: true,
+    // One self-contained file per screen: a few kB repeated across screens costs less than
+    // the request waterfall that shared chunks add to the first paint.
+    splitting: false,
     format: 'esm',
     minify: true,
     target: ['chrome110', 'firefox115', 'safari16'],
     outdir: '/assets',
     entryNames: '[name]',
-    chunkNames: 'chunk-[hash]',
     write: false,
     logLevel: 'silent',
     legalComments: 'none',

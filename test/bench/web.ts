@@ -113,7 +113,8 @@ export const webBench: BenchSection = {
         await page.waitForSelector('[data-testid="total-phosphorusMg"]');
         const t = await page.evaluate(() => {
           const fcp = performance.getEntriesByName('first-contentful-paint')[0]?.startTime ?? NaN;
-          return { fcp, now: performance.now() };
+          const totals = performance.getEntriesByName('phl-totals')[0]?.startTime ?? NaN;
+          return { fcp, now: totals };
         });
         if (i > 0) {
           paints.push(t.fcp);
@@ -121,6 +122,14 @@ export const webBench: BenchSection = {
         }
       }
       const weight = [...bytes.values()].reduce((a, b) => a + b, 0);
+      // Where the last load spent its time: each request's start and end, ms after navigation.
+      const requests = await page.evaluate(() =>
+        (performance.getEntriesByType('resource') as PerformanceResourceTiming[]).map((r) => ({
+          name: new URL(r.name).pathname,
+          start: Math.round(r.startTime),
+          end: Math.round(r.responseEnd),
+        })),
+      );
       await cdp.send('Network.setCacheDisabled', { cacheDisabled: false });
 
       // Type-ahead: real key presses; the page records keydown time and the time the listbox
@@ -194,6 +203,7 @@ export const webBench: BenchSection = {
         'plate ledger page weight (cold, all requests)',
         `${fmt(weight / 1024, 1)} kB (goal < 300 kB)`,
       );
+      for (const r of requests) line(`  load: ${r.name}`, `${fmt(r.start)} -> ${fmt(r.end)} ms`);
       if (hs.offsite.length > 0)
         line('requests outside the server (must be 0)', String(hs.offsite.length));
     } finally {

@@ -205,6 +205,10 @@ describe.skipIf(!canRun)('consult screens in Chromium (USDA SR28 foods)', () => 
     await qty.fill('3'); // bread: 3 slices = 87 g
     await qty.press('Enter');
     await expect.poll(() => phosphorusTotal(page), POLL).not.toBe(before);
+    // The rows were drawn again from the new summary; the keyboard stays where it was.
+    expect(await page.evaluate(() => document.activeElement?.getAttribute('data-focus-key'))).toBe(
+      'qty-0-0-0',
+    );
     await page.locator('#contributors button').first().click();
     await page.waitForSelector('#swaps h3');
     await shot(page, '05-swaps');

@@ -97,7 +97,7 @@ async function loadFormats(): Promise<void> {
     );
     const show = () => {
       const f = formats.find((x) => x.format === sel.value);
-      hint.textContent = f ? `${f.pathHint}. ${f.where}` : '';
+      hint.textContent = f ? `File: ${f.pathHint}. Where to get it: ${f.where}` : '';
     };
     sel.addEventListener('change', show);
     show();
