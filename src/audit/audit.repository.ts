@@ -1,3 +1,4 @@
+import type Database from 'better-sqlite3';
 import type { Kysely, Selectable } from 'kysely';
 import type { DB } from '../db/schema.js';
 import type { AuditEventTable } from './audit.tables.js';
@@ -22,10 +23,29 @@ export function rowToAuditEvent(r: Row): AuditEvent {
   };
 }
 
+const inserts = new WeakMap<Database.Database, Database.Statement>();
+
 export class AuditRepository {
-  constructor(private readonly db: Kysely<DB>) {}
+  /** `sqlite`, when given, writes events through one cached prepared statement (hot path). */
+  constructor(
+    private readonly db: Kysely<DB>,
+    private readonly sqlite?: Database.Database,
+  ) {}
 
   async insert(row: Omit<Row, 'id'>): Promise<number> {
+    if (this.sqlite) {
+      let stmt = inserts.get(this.sqlite);
+      if (!stmt) {
+        stmt = this.sqlite.prepare(
+          `INSERT INTO audit_event (at, user_id, username, action, entity, entity_id, patient_id,
+             patient_ref, outcome, status_code, details_json)
+           VALUES (@at, @user_id, @username, @action, @entity, @entity_id, @patient_id,
+             @patient_ref, @outcome, @status_code, @details_json)`,
+        );
+        inserts.set(this.sqlite, stmt);
+      }
+      return Number(stmt.run(row).lastInsertRowid);
+    }
     const r = await this.db
       .insertInto('audit_event')
       .values(row)

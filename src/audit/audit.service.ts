@@ -14,7 +14,7 @@ export async function recordAudit(
   entry: AuditEntry,
   clock: Clock = systemClock,
 ): Promise<number> {
-  const repo = new AuditRepository(db.kysely);
+  const repo = new AuditRepository(db.kysely, db.sqlite);
   const username =
     entry.username !== undefined
       ? entry.username

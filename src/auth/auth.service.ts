@@ -60,7 +60,7 @@ export class AuthService {
     readonly policy: AuthPolicy,
     private readonly scryptParams: ScryptParams = DEFAULT_SCRYPT_PARAMS,
   ) {
-    this.repo = new AuthRepository(db.kysely);
+    this.repo = new AuthRepository(db.kysely, db.sqlite);
   }
 
   private now(): Date {
