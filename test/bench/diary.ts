@@ -94,14 +94,20 @@ export const diaryBench: BenchSection = {
     t = performance.now();
     const bulkRun = await service.run({ text: bulk });
     const bulkMs = performance.now() - t;
+    // Again, now that every phrase of the set has been searched once (a clinic's usual case).
+    t = performance.now();
+    await service.run({ text: bulk });
+    const bulkWarmMs = performance.now() - t;
     t = performance.now();
     baseline(bulk);
     const bulkBase = performance.now() - t;
     const perS = (lineCount / bulkMs) * 1000;
+    const perSWarm = (lineCount / bulkWarmMs) * 1000;
     console.log(
-      `   bulk ${fmt(lineCount)} lines (${fmt(bulkRun.report.entries.length)} entries): audit ${fmt(bulkMs)} ms = ${fmt(perS)} lines/s ` +
+      `   bulk ${fmt(lineCount)} lines (${fmt(bulkRun.report.entries.length)} entries, 224 distinct phrases): ` +
+        `first audit ${fmt(bulkMs)} ms = ${fmt(perS)} lines/s, again ${fmt(bulkWarmMs)} ms = ${fmt(perSWarm)} lines/s ` +
         `(reader alone ${fmt((lineCount / readMs) * 1000)} lines/s; baseline ${fmt((lineCount / Math.max(bulkBase, 0.001)) * 1000)} lines/s); ` +
-        `goal >= 5,000 lines/s: ${perS >= 5000 ? 'met' : 'NOT met'}`,
+        `goal >= 5,000 lines/s: ${perS >= 5000 ? 'met' : perSWarm >= 5000 ? 'met when warm only' : 'NOT met'}`,
     );
 
     // Accuracy on the labelled set (fresh matcher, shared search cache irrelevant to correctness).
