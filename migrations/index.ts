@@ -5,6 +5,7 @@ import * as patientsPlans from './202612012050_patients_plans.js';
 import * as patientErasure from './202612012100_patient_erasure.js';
 import * as diaryAudits from './202612012110_diary_audits.js';
 import * as foodSearchPrefix from './202612012120_food_search_prefix.js';
+import * as foodNameStart from './202612012130_food_name_start_index.js';
 
 /**
  * Every migration, by name (no extension, so the same database works from any runner).
@@ -17,4 +18,5 @@ export const migrations: Record<string, Migration> = {
   '202612012100_patient_erasure': patientErasure,
   '202612012110_diary_audits': diaryAudits,
   '202612012120_food_search_prefix': foodSearchPrefix,
+  '202612012130_food_name_start_index': foodNameStart,
 };

@@ -200,6 +200,38 @@ export class FoodRepository {
     return q.execute();
   }
 
+  /**
+   * Foods of one kind whose lower-cased main name starts with `prefix` (a range scan on the
+   * (kind, lower(name)) index), for the first ranking tier.
+   */
+  async nameStartCandidates(opts: {
+    prefix: string;
+    kind: FoodKind;
+    limit: number;
+    source?: string | undefined;
+    group?: string | undefined;
+  }) {
+    // U+10FFFF sorts after every character (BINARY collation compares UTF-8 bytes).
+    const upper = `${opts.prefix}\u{10FFFF}`;
+    let q = this.db
+      .selectFrom('food')
+      .select(['food.id', 'food.name', 'food.alt_names', 'food.kind', 'food.source_id'])
+      .where('food.kind', '=', opts.kind)
+      .where(sql<boolean>`lower(food.name) >= ${opts.prefix}`)
+      .where(sql<boolean>`lower(food.name) < ${upper}`)
+      .limit(opts.limit);
+    if (opts.group) q = q.where('food.food_group', '=', opts.group);
+    if (opts.source) {
+      q = q.where('food.source_id', 'in', (eb) =>
+        eb
+          .selectFrom('food_source')
+          .select('id')
+          .where('format', '=', opts.source as string),
+      );
+    }
+    return q.execute();
+  }
+
   async listSources() {
     return this.db
       .selectFrom('food_source')

@@ -9,6 +9,13 @@ import { ftsTierQueries, searchWords } from './text.js';
  */
 const CANDIDATES = { generic: 1500, branded: 250 } as const;
 
+/** Every query word starts a word of the name or of an alternate name (as FTS prefix matching). */
+function hasAllWords(words: readonly string[], name: string, altNamesJson: string): boolean {
+  if (words.length === 1) return true; // the range scan matched the first word already
+  const have = searchWords(`${name} ${altNamesJson}`);
+  return words.every((w) => have.some((h) => h.startsWith(w)));
+}
+
 export class FoodService {
   constructor(private readonly repo: FoodRepository) {}
 
@@ -31,7 +38,16 @@ export class FoodService {
         const limit = CANDIDATES[kind];
         const fetch = (match: string) =>
           this.repo.ftsCandidates({ match, kind, limit, source: query.source, group: query.group });
-        const first = await fetch(tiers.first);
+        // Main names starting with the first word (index range scan), kept when every other
+        // word is there too; then any FTS match.
+        const starts = await this.repo.nameStartCandidates({
+          prefix: words[0] as string,
+          kind,
+          limit,
+          source: query.source,
+          group: query.group,
+        });
+        const first = starts.filter((c) => hasAllWords(words, c.name, c.alt_names));
         const rest = first.length >= limit ? [] : await fetch(tiers.any);
         const seen = new Set<number>();
         for (const c of [...first, ...rest]) {
