@@ -1,33 +1,37 @@
 /**
  * Load: 200 connections on 127.0.0.1 (autocannon) against food search, the plan summary and the
  * handout routes, signed in, over a WAL database file with the full USDA SR28 (IFCT 2017 when
- * SR28 is missing). Prints requests/s, p99 latency and errors per route, with the same figures
- * for /api/health on the same server as the baseline. Zero errors is the goal.
+ * SR28 is missing). The server runs in its own process (load-server.ts). Prints requests/s, p50
+ * and p99 latency and errors per route, with /api/health on the same server as the baseline.
+ * Zero errors is the goal (a request unanswered after autocannon's 10 s counts as an error).
  *
  *   npm run bench -- load                                    60 s per route (the goal setting)
  *   PHOSLEDGER_LOAD_SECONDS=5 npm run bench -- load          a quick run
  *   PHOSLEDGER_LOAD_CONNECTIONS=50 ...                       fewer connections
  */
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { findImporter } from '../../data-import/registry.js';
-import { SESSION_COOKIE } from '../../src/auth/auth.js';
-import { migrateToLatest, openDb } from '../../src/db/database.js';
-import { createTestContext } from '../helpers/context.js';
-import { hasSr28, SR28_DIR } from '../helpers/shared.js';
+import { spawn } from 'node:child_process';
+import { createInterface } from 'node:readline';
+import { fileURLToPath } from 'node:url';
 import type { BenchSection } from './sections.js';
 import { fmt } from './stats.js';
 
 interface AutocannonResult {
   requests: { average: number; total: number };
-  latency: { p99: number; p50: number; average: number };
+  latency: { p99: number; p50: number };
   errors: number;
   timeouts: number;
   non2xx: number;
-  statusCodeStats?: Record<string, { count: number }>;
 }
 type Autocannon = (opts: object) => Promise<AutocannonResult>;
+
+interface Ready {
+  address: string;
+  cookie: string;
+  planId: number;
+  routes: string[];
+  format: string;
+  foods: number;
+}
 
 function positiveInt(name: string, fallback: number): number {
   const raw = process.env[name];
@@ -61,9 +65,11 @@ const TERMS = [
   'salmon',
 ];
 
+const SERVER = fileURLToPath(new URL('./load-server.ts', import.meta.url));
+
 export const loadBench: BenchSection = {
   name: 'load',
-  title: 'search, plan summary and handouts under concurrent connections (autocannon)',
+  title: 'search, plan summary and handouts under 200 concurrent connections (autocannon)',
   async run() {
     const seconds = positiveInt('PHOSLEDGER_LOAD_SECONDS', 60);
     const connections = positiveInt('PHOSLEDGER_LOAD_CONNECTIONS', 200);
@@ -75,82 +81,52 @@ export const loadBench: BenchSection = {
       console.log('   autocannon is not installed (npm install): section skipped');
       return;
     }
-    const dir = mkdtempSync(join(tmpdir(), 'phl-load-'));
-    const db = openDb(join(dir, 'load.sqlite'));
+    const child = spawn(process.execPath, ['--import', 'tsx', SERVER], {
+      stdio: ['pipe', 'pipe', 'inherit'],
+    });
+    const lines = createInterface({ input: child.stdout! });
+    const audited = new Promise<string>((resolve) => {
+      lines.on('line', (l) => {
+        if (l.startsWith('AUDITED ')) resolve(l.slice(8));
+      });
+    });
     try {
-      await migrateToLatest(db);
-      const format = hasSr28 ? 'usda-sr28' : 'ifct2017';
-      const imported = await findImporter(format)!.run(db, hasSr28 ? SR28_DIR : undefined);
-      if (!imported.ok) throw new Error(`import failed: ${imported.fatal.message}`);
-      const ctx = await createTestContext({ db });
-      const foods = db.sqlite.prepare('SELECT id FROM food ORDER BY id LIMIT 30').all() as Array<{
-        id: number;
-      }>;
-      const patient = await ctx.inject({
-        method: 'POST',
-        url: '/api/patients',
-        payload: {
-          label: 'LOAD (invented)',
-          language: 'en',
-          weightKg: 70,
-          ckdStage: '5',
-          dialysis: 'hemodialysis',
-          diabetes: false,
-          labs: [],
-        },
+      const ready = await new Promise<Ready>((resolve, reject) => {
+        child.once('exit', (code) => reject(new Error(`load server exited (${code})`)));
+        lines.on('line', (l) => {
+          if (l.startsWith('READY ')) resolve(JSON.parse(l.slice(6)) as Ready);
+        });
       });
-      if (patient.statusCode !== 201) throw new Error(`patient: ${patient.body}`);
-      let k = 0;
-      const plan = await ctx.inject({
-        method: 'POST',
-        url: `/api/patients/${patient.json().id}/plans`,
-        payload: {
-          name: 'Load week (invented)',
-          days: Array.from({ length: 7 }, (_, d) => ({
-            label: `Day ${d + 1}`,
-            occasions: ['Breakfast', 'Lunch', 'Snack', 'Dinner', 'Supper'].map((name) => ({
-              name,
-              items: Array.from({ length: 6 }, () => ({
-                foodId: foods[k++ % foods.length]!.id,
-                grams: 40 + (k % 7) * 15,
-              })),
-            })),
-          })),
-        },
-      });
-      if (plan.statusCode !== 201) throw new Error(`plan: ${plan.body}`);
-      const planId = (plan.json().planId ?? plan.json().id ?? plan.json().header?.id) as number;
-
-      const address = await ctx.app.listen({ host: '127.0.0.1', port: 0 });
-      const headers = { cookie: `${SESSION_COOKIE}=${ctx.sessionToken}` };
-      const routes = new Set(ctx.app.routeInventory.map((r) => `${r.method} ${r.url}`));
+      const routes = new Set(ready.routes);
       const targets: Array<{ label: string; path: string; vary?: boolean }> = [
         {
           label: 'GET /api/foods?q= (search, 20 terms)',
           path: '/api/foods?q=milk&limit=20',
           vary: true,
         },
-        { label: 'GET /api/plans/:id/summary', path: `/api/plans/${planId}/summary` },
+        { label: 'GET /api/plans/:id/summary', path: `/api/plans/${ready.planId}/summary` },
       ];
       if (routes.has('GET /plans/:id/handout'))
-        targets.push({ label: 'GET /plans/:id/handout (HTML)', path: `/plans/${planId}/handout` });
+        targets.push({
+          label: 'GET /plans/:id/handout (HTML)',
+          path: `/plans/${ready.planId}/handout`,
+        });
       if (routes.has('GET /api/plans/:id/handout.pdf'))
         targets.push({
           label: 'GET /api/plans/:id/handout.pdf',
-          path: `/api/plans/${planId}/handout.pdf`,
+          path: `/api/plans/${ready.planId}/handout.pdf`,
         });
-      else console.log('   handout routes not registered: only search and summary measured');
-
+      if (targets.length === 2) console.log('   handout routes not registered: not measured');
       console.log(
-        `   ${connections} connections, ${seconds} s per route; foods: ${format} (${fmt(imported.imported)}); database file in WAL mode`,
+        `   ${connections} connections, ${seconds} s per route; foods: ${ready.format} (${fmt(ready.foods)}); server in its own process, database file in WAL mode`,
       );
       const run = async (label: string, path: string, vary = false, duration = seconds) => {
         let i = 0;
         const r = await autocannon({
-          url: `${address}${path}`,
+          url: `${ready.address}${path}`,
           connections,
           duration,
-          headers,
+          headers: { cookie: ready.cookie },
           ...(vary
             ? {
                 requests: [
@@ -166,7 +142,7 @@ export const loadBench: BenchSection = {
         });
         const errors = r.errors + r.timeouts + r.non2xx;
         console.log(
-          `   ${label.padEnd(40)} ${fmt(r.requests.average).padStart(8)} req/s  p50 ${fmt(r.latency.p50)} ms  p99 ${fmt(r.latency.p99)} ms  errors ${errors}${errors > 0 ? `  (non-2xx ${r.non2xx}, timeouts ${r.timeouts}, socket ${r.errors})` : ''}`,
+          `   ${label.padEnd(40)} ${fmt(r.requests.average).padStart(8)} req/s  p50 ${fmt(r.latency.p50)} ms  p99 ${fmt(r.latency.p99)} ms  errors ${errors}${errors > 0 ? ` (non-2xx ${r.non2xx}, timeouts ${r.timeouts}, socket ${r.errors})` : ''}`,
         );
         return r.requests.average;
       };
@@ -178,16 +154,18 @@ export const loadBench: BenchSection = {
       );
       for (const t of targets) {
         const rps = await run(t.label, t.path, t.vary ?? false);
-        console.log(`   ${''.padEnd(40)} ratio to baseline ${fmt(rps / baseline, 3)}`);
+        console.log(
+          `   ${''.padEnd(40)} ${fmt(rps / Math.max(baseline, 1e-9), 3)} of the baseline's req/s`,
+        );
       }
-      const audited = (
-        db.sqlite.prepare('SELECT count(*) AS n FROM audit_event').get() as { n: number }
-      ).n;
-      console.log(`   audit events written during the run: ${fmt(audited)}`);
-      await ctx.app.close();
     } finally {
-      await db.close();
-      rmSync(dir, { recursive: true, force: true });
+      child.stdin!.end();
+      const n = await Promise.race([
+        audited,
+        new Promise<string>((r) => setTimeout(() => r('?'), 10_000)),
+      ]);
+      console.log(`   audit events written during the run: ${n}`);
+      child.kill('SIGTERM');
     }
   },
 };
