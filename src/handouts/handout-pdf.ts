@@ -203,11 +203,17 @@ export async function renderHandoutPdf(
     language: vm.language,
     createdAt: new Date(`${vm.header.date}T00:00:00Z`),
   });
+  // The heading a day's continuation page repeats (set while that day's meals are drawn).
+  let continued: string | null = null;
   const flow = new PdfFlow(doc as unknown as FlowSurface, vm.script, vm.direction, {
     marginPt: MARGIN,
     headerPt: BAND - MARGIN + 16,
     footerPt: 36,
-    onNewPage: (f) => drawBand(f, vm),
+    onNewPage: (f) => {
+      drawBand(f, vm);
+      if (continued)
+        f.paragraph(continued, style(TYPE.subheading, 'bold', THEME.brand), { gapAfter: 6 });
+    },
   });
   flow.newPage();
   drawInfo(flow, vm);
@@ -224,7 +230,9 @@ export async function renderHandoutPdf(
     // The chart comes first so it stays with the day's heading; the meals flow after it.
     drawAbsorbableChart(flow, day.chart);
     flow.y += 6;
+    continued = day.continuedHeading;
     for (const occ of day.occasions) drawOccasion(flow, occ);
+    continued = null;
   }
 
   flow.newPage();

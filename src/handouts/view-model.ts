@@ -57,6 +57,8 @@ export interface OccasionVm {
 export interface DayVm {
   number: number;
   heading: string;
+  /** Heading repeated on a page the day runs on to. */
+  continuedHeading: string;
   /** The dietitian's own name for the day when it is more than "Day n". */
   label: string | null;
   totalMg: number;
@@ -269,9 +271,14 @@ export function buildHandoutViewModel(
     const a = day.nutrients.absorbablePhosphorusMg;
     const targetMg = phosphorusTargetMg(day.targets);
     const heading = t('day.heading', { day: formatNumber(locale, dayIndex + 1) });
+    const fullHeading =
+      /^\s*day\s*\d+\s*$/i.test(day.label) || !day.label.trim()
+        ? heading
+        : `${heading}: ${day.label}`;
     return {
       number: dayIndex + 1,
       heading,
+      continuedHeading: t('day.continued', { heading: fullHeading }),
       label: /^\s*day\s*\d+\s*$/i.test(day.label) || !day.label.trim() ? null : day.label,
       totalMg: day.nutrients.phosphorusMg,
       absorbableMg: { low: a.low, typical: a.typical, high: a.high },

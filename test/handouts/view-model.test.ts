@@ -150,6 +150,7 @@ describe('handout view-model (invented demo data)', () => {
               "valueText": "741 de 1234 mg",
             },
           },
+          "continuedHeading": "Día 1 (continuación)",
           "heading": "Día 1",
           "label": null,
           "number": 1,
