@@ -17,7 +17,7 @@ import type {
 import { profileFood, scaleProfile, type PhosphorusProfile } from '../phosphorus/profile.js';
 import { memoryKey } from './matcher.js';
 import type { Candidate, MatchMethod } from './matching.service.js';
-import { defaultPortion, quantityToGrams } from './quantity.js';
+import { defaultPortion, quantityToGrams, type GramsResult } from './quantity.js';
 import type { DiaryEntryInput } from './reader.js';
 
 /** Where an entry's food came from, as the report shows it. */
@@ -153,6 +153,7 @@ export function buildDiaryReport(input: BuildInput): Omit<DiaryReport, 'days'> &
   const dayCounts = new Map<string, { entries: number; unmatched: number }>();
   // One profile per food (a diary repeats its foods); an entry's own statement makes a new food.
   const profiles = new Map<Food, PhosphorusProfile>();
+  const gramsCache = new Map<string, GramsResult>();
 
   for (const e of entries) {
     const key = dayKey(e);
@@ -202,10 +203,15 @@ export function buildDiaryReport(input: BuildInput): Omit<DiaryReport, 'days'> &
       continue;
     }
     const food = entryFood(m.food, e);
-    const entryWords = memoryKey(e.foodText).split(' ');
-    const grams = e.quantityUnreadable
-      ? defaultPortion(food, `quantity '${e.quantityText ?? ''}' not understood`)
-      : quantityToGrams(e.quantity, food, entryWords);
+    const gramsKey = `${food.id}|${e.quantityUnreadable}|${e.quantityText ?? ''}|${e.foodText}`;
+    let grams = gramsCache.get(gramsKey);
+    if (!grams || food !== m.food) {
+      const entryWords = memoryKey(e.foodText).split(' ');
+      grams = e.quantityUnreadable
+        ? defaultPortion(food, `quantity '${e.quantityText ?? ''}' not understood`)
+        : quantityToGrams(e.quantity, food, entryWords);
+      gramsCache.set(gramsKey, grams);
+    }
     let profile = profiles.get(food);
     if (!profile) {
       profile = profileFood(food, settings.absorption);

@@ -479,6 +479,9 @@ function looksLikeCsv(text: string): boolean {
 // ---------------------------------------------------------------------------------------------
 // Entries
 
+/** Diaries repeat their lines: the split of a line's text is kept (it is pure). */
+const splitCache = new Map<string, ReturnType<typeof splitQuantity>>();
+
 function entryFromText(
   base: Omit<
     DiaryEntryInput,
@@ -503,7 +506,12 @@ function entryFromText(
       flags,
     };
   }
-  const split = splitQuantity(foodCell);
+  let split = splitCache.get(foodCell);
+  if (!split) {
+    split = splitQuantity(foodCell);
+    if (splitCache.size > 50_000) splitCache.clear();
+    splitCache.set(foodCell, split);
+  }
   if (split.vague) flags.push(`quantity '${split.vague}' gives no size`);
   return {
     ...base,
