@@ -34,6 +34,8 @@ export function attachTypeahead(opts: TypeaheadOptions): { clear(): void } {
   let active = -1;
   let inflight: AbortController | undefined;
   let seq = 0;
+  // Answers already seen on this page (backspacing or retyping shows them at once).
+  const seen = new Map<string, FoodHit[]>();
 
   const close = () => {
     list.hidden = true;
@@ -107,6 +109,12 @@ export function attachTypeahead(opts: TypeaheadOptions): { clear(): void } {
       list.dataset.query = '';
       return;
     }
+    const known = seen.get(q);
+    if (known) {
+      hits = known;
+      render(q);
+      return;
+    }
     inflight = new AbortController();
     try {
       const res = await api<FoodHit[]>(
@@ -115,6 +123,7 @@ export function attachTypeahead(opts: TypeaheadOptions): { clear(): void } {
         undefined,
         { signal: inflight.signal },
       );
+      seen.set(q, res);
       if (mine !== seq) return;
       hits = res;
       render(q);

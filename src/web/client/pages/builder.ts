@@ -728,15 +728,11 @@ function renderContributors(): void {
         h(
           'li',
           {},
+          h('div', {}, c.name),
           h(
             'div',
-            { class: 'meter-head' },
-            h('span', {}, c.name),
-            h(
-              'span',
-              { class: 'num' },
-              `${mg(c.absorbablePhosphorusMgTypical)} absorbable · ${Math.round(c.share * 100)} % of the day’s P`,
-            ),
+            { class: 'small muted' },
+            `${mg(c.absorbablePhosphorusMgTypical)} absorbable · ${Math.round(c.share * 100)} % of the day’s phosphorus `,
           ),
           h(
             'button',
