@@ -140,9 +140,10 @@ export const loadBench: BenchSection = {
               }
             : {}),
         });
-        const errors = r.errors + r.timeouts + r.non2xx;
+        // autocannon's `errors` already counts timeouts
+        const errors = r.errors + r.non2xx;
         console.log(
-          `   ${label.padEnd(40)} ${fmt(r.requests.average).padStart(8)} req/s  p50 ${fmt(r.latency.p50)} ms  p99 ${fmt(r.latency.p99)} ms  errors ${errors}${errors > 0 ? ` (non-2xx ${r.non2xx}, timeouts ${r.timeouts}, socket ${r.errors})` : ''}`,
+          `   ${label.padEnd(40)} ${fmt(r.requests.average).padStart(8)} req/s  p50 ${fmt(r.latency.p50)} ms  p99 ${fmt(r.latency.p99)} ms  errors ${errors}${errors > 0 ? ` (${r.timeouts} timed out after 10 s, ${r.non2xx} non-2xx)` : ''}`,
         );
         return r.requests.average;
       };
