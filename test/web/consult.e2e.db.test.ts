@@ -299,6 +299,10 @@ describe.skipIf(!canRun)('consult screens in Chromium (USDA SR28 foods)', () => 
     await shot(page, '09-clinic-settings');
     await page.goto(patientUrl);
     await page.waitForSelector('#plans table');
+    await page.goto(`${hs.baseUrl}/patients`);
+    await page.waitForSelector('#patient-list table');
+    expect(await page.locator('#patient-list tbody tr').count()).toBe(1);
+    await shot(page, '10-caseload-list');
   });
 
   it('fetched nothing from outside the server', () => {
