@@ -4,7 +4,7 @@ import { z } from 'zod';
 import type { Clock } from '../clock.js';
 import type { Db } from '../db/database.js';
 import { FoodRepository } from '../foods/foods.repository.js';
-import '../patients/patients.routes.js';
+import '../patients/patients.routes.js'; // declares config.patientData for these routes too
 import { planInputSchema } from './plan.js';
 import { binderSummarySchema, planSummarySchema } from './summary.schema.js';
 import { settingsSource } from './plan-settings-source.js';
