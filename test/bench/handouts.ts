@@ -4,6 +4,7 @@
  * one line of text in the same process; and the size of a 3-day handout in every language.
  * Goals: < 300 ms per 7-day handout, < 1 MB per 3-day PDF.
  */
+import os from 'node:os';
 import PDFDocument from 'pdfkit';
 import { ADDITIVE_CATALOGUE } from '../../src/additives/catalogue.js';
 import { selectWatchAdditives } from '../../src/handouts/foods-to-watch.js';
@@ -16,12 +17,20 @@ import { demoClinic, demoPatient, demoSummary } from '../handouts/fixtures.js';
 import type { BenchSection } from './sections.js';
 import { fmt, percentile } from './stats.js';
 
-async function time(runs: number, fn: () => Promise<unknown>): Promise<number[]> {
+/** Wall-clock ms per run, and CPU ms of this process per run (less hurt by a busy machine). */
+async function time(
+  runs: number,
+  fn: () => Promise<unknown>,
+  cpu: number[] = [],
+): Promise<number[]> {
   const out: number[] = [];
   for (let i = 0; i < runs; i++) {
+    const c0 = process.cpuUsage();
     const t0 = performance.now();
     await fn();
     out.push(performance.now() - t0);
+    const c = process.cpuUsage(c0);
+    cpu.push((c.user + c.system) / 1000);
   }
   return out;
 }
@@ -44,8 +53,12 @@ export const handoutsBench: BenchSection = {
       return finishPdf(doc);
     };
     await time(5, bare);
-    const base = percentile(await time(30, bare), 50);
-    console.log(`   baseline, bare one-line PDFKit page: median ${fmt(base, 1)} ms`);
+    const bareCpu: number[] = [];
+    const base = percentile(await time(30, bare, bareCpu), 50);
+    console.log(
+      `   baseline, bare one-line PDFKit page: median ${fmt(base, 1)} ms, CPU ${fmt(percentile(bareCpu, 50), 1)} ms ` +
+        `(load average ${os.loadavg()[0]?.toFixed(1)} on ${os.cpus().length} cores)`,
+    );
 
     const week = demoSummary(7, 6, 5);
     for (const lang of ['es', 'ru', 'zh-Hans', 'ar', 'hi']) {
@@ -67,11 +80,13 @@ export const handoutsBench: BenchSection = {
         pages = r.pageCount;
       };
       await time(3, render); // warm-up: shaping caches fill
-      const ms = await time(15, render);
+      const cpu: number[] = [];
+      const ms = await time(15, render, cpu);
       const median = percentile(ms, 50);
       console.log(
-        `   7-day ${lang.padEnd(7)} ${pages} pages: median ${fmt(median, 1)} ms, p95 ${fmt(percentile(ms, 95), 1)} ms ` +
-          `(${fmt(median / base, 1)}x baseline) ${median < 300 ? 'meets' : 'MISSES'} < 300 ms`,
+        `   7-day ${lang.padEnd(7)} ${pages} pages: median ${fmt(median, 1)} ms, p95 ${fmt(percentile(ms, 95), 1)} ms, ` +
+          `CPU median ${fmt(percentile(cpu, 50), 1)} ms (${fmt(median / base, 1)}x baseline) ` +
+          `${median < 300 ? 'meets' : 'MISSES'} < 300 ms`,
       );
     }
 

@@ -48,7 +48,7 @@ const TOKEN =
 const widthCache = new Map<string, { advance: number; notdef: boolean }>();
 const measureCache = new Map<
   string,
-  { widthPerPt: number; missing: number[]; notdefRuns: number }
+  { runs: VisualRun[]; widthPerPt: number; missing: number[]; notdefRuns: number }
 >();
 
 /** Advance width in font units per em (1 pt at size 1) and whether any glyph is .notdef. */
@@ -100,18 +100,23 @@ export class TextEngine {
 
   /** Width in points of a single-line string. */
   widthOf(text: string, style: Pick<TextStyle, 'sizePt' | 'weight'>): number {
-    // Widths scale with the size, so one measurement at 1 pt serves every size.
-    const key = `${this.script}|${this.direction}|${style.weight}|${text}`;
+    return this.cachedRuns(text, style.weight).widthPerPt * style.sizePt;
+  }
+
+  /**
+   * The visual runs of a string at 1 pt, remembered for the process: widths scale with the
+   * size, and the same strings (labels, measures, headings) recur on every page and handout.
+   */
+  private cachedRuns(text: string, weight: FontWeight) {
+    const key = `${this.script}|${this.direction}|${weight}|${text}`;
     let hit = measureCache.get(key);
     if (!hit) {
       const before = new Set(this.missing);
       const notdef = this.notdefRuns;
-      const width = this.runs(text, { sizePt: 1, weight: style.weight }).reduce(
-        (s, r) => s + r.widthPt,
-        0,
-      );
+      const runs = this.runs(text, { sizePt: 1, weight });
       hit = {
-        widthPerPt: width,
+        runs,
+        widthPerPt: runs.reduce((s, r) => s + r.widthPt, 0),
         missing: [...this.missing].filter((c) => !before.has(c)),
         notdefRuns: this.notdefRuns - notdef,
       };
@@ -121,7 +126,7 @@ export class TextEngine {
       for (const c of hit.missing) this.missing.add(c);
       this.notdefRuns += hit.notdefRuns;
     }
-    return hit.widthPerPt * style.sizePt;
+    return hit;
   }
 
   /** Splits a paragraph into lines no wider than maxWidthPt (logical order). */
@@ -248,8 +253,9 @@ export class TextEngine {
     style: TextStyle,
     align: 'start' | 'end' | 'center' = 'start',
   ): number {
-    const runs = this.runs(line, style);
-    const total = runs.reduce((s, r) => s + r.widthPt, 0);
+    const cached = this.cachedRuns(line, style.weight);
+    const runs = cached.runs.map((r) => ({ ...r, widthPt: r.widthPt * style.sizePt }));
+    const total = cached.widthPerPt * style.sizePt;
     const startIsLeft = this.direction === 'ltr';
     let cx: number;
     if (align === 'center') cx = x + (widthPt - total) / 2;
