@@ -1,6 +1,8 @@
 import { FoodRepository } from '../../foods/foods.repository.js';
 import { FoodService } from '../../foods/foods.service.js';
 import { toFoodHit, toFoodJson } from '../../foods/food.json.js';
+import { toPhosphorusJson } from '../../phosphorus/phosphorus.json.js';
+import { PhosphorusService } from '../../phosphorus/phosphorus.service.js';
 import { UsageError, type Command } from '../command.js';
 
 function fmt(n: number | null, digits = 0): string {
@@ -27,7 +29,11 @@ export const foodsSearch: Command = {
       limit,
       ...(typeof source === 'string' ? { source } : {}),
     });
-    const hits = foods.map(toFoodHit);
+    const profiles = await new PhosphorusService(db).profiles(foods);
+    const hits = foods.map((f) => {
+      const profile = profiles.get(f.id);
+      return { ...toFoodHit(f), phosphorus: profile ? toPhosphorusJson(profile) : null };
+    });
     if (ctx.args.values.json) {
       ctx.stdout.write(`${JSON.stringify(hits, null, 2)}\n`);
       return;
@@ -64,8 +70,10 @@ export const foodsShow: Command = {
       return 1;
     }
     const source = await repo.getProvenance(food.sourceId);
+    const profile = await new PhosphorusService(db).profile(food);
     const json = {
       ...toFoodJson(food),
+      phosphorus: toPhosphorusJson(profile),
       provenance: source
         ? {
             table: source.name,
