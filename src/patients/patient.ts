@@ -67,16 +67,17 @@ export const targetOverridesSchema = z
   .strict();
 export type TargetOverrides = z.infer<typeof targetOverridesSchema>;
 
+const languageTag = z
+  .string()
+  .regex(
+    /^[a-z]{2,3}(-[A-Za-z0-9]{2,8})*$/,
+    "language must be a BCP-47 tag such as 'es' or 'pt-BR'",
+  );
+
 const patientFields = {
   label: z.string().trim().min(1, 'label (clinic label or pseudonym) is required').max(80),
   name: z.string().trim().min(1).max(200).nullable().default(null),
-  language: z
-    .string()
-    .regex(
-      /^[a-z]{2,3}(-[A-Za-z0-9]{2,8})*$/,
-      "language must be a BCP-47 tag such as 'es' or 'pt-BR'",
-    )
-    .default('en'),
+  language: languageTag.default('en'),
   weightKg: z
     .number({ error: 'weightKg must be a number (kg)' })
     .min(20, 'weightKg must be between 20 and 300 kg')
@@ -145,7 +146,8 @@ export const patientUpdateSchema = z
   .object({
     label: patientFields.label.optional(),
     name: z.string().trim().min(1).max(200).nullable().optional(),
-    language: patientFields.language.optional(),
+    // No default here: an update that leaves the language out keeps the stored one.
+    language: languageTag.optional(),
     weightKg: patientFields.weightKg.optional(),
     ckdStage: patientFields.ckdStage.optional(),
     dialysis: z.enum(DIALYSIS_MODALITIES).optional(),
