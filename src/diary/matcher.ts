@@ -325,6 +325,7 @@ export const DIARY_SYNONYMS: Record<string, string> = {
   blanca: 'white',
   white: 'white',
   'chispas de chocolate': 'chocolate chip',
+  'con chispas de chocolate': 'chocolate chip',
 };
 
 /** State words a food name can carry; a diary that names none gets the usual state. */
@@ -386,7 +387,6 @@ const USUALLY_COOKED_WORDS = new Set(
     'noodles',
     'spinach',
     'squash',
-    'sweet',
   ].map((w) => stem(w)),
 );
 
@@ -530,12 +530,13 @@ function mapSynonyms(tokens: string[]): string[] {
 /** Prepares a diary phrase (quantity already taken out) for search and scoring. */
 export function prepareQuery(text: string): PreparedQuery {
   const raw = words(text).map((w) => w.replace(/^'+|'+$/g, ''));
-  // "with" joins a second food ("toast with margarine"): the head food is before it.
-  const withAt = raw.findIndex(
-    (w, i) => i > 0 && (w === 'with' || w === 'con') && !KEEP_WITH.has(raw[i + 1] ?? ''),
+  // Phrases first ("galletas con chispas de chocolate", "cafe con leche"), then "with" joins a
+  // second food ("toast with margarine"): the head food is before it.
+  const all = mapSynonyms(raw.filter((w) => !/^\d+([.,]\d+)?$/.test(w) || /%$/.test(w)));
+  const withAt = all.findIndex(
+    (w, i) => i > 0 && (w === 'with' || w === 'con') && !KEEP_WITH.has(all[i + 1] ?? ''),
   );
-  const headPart = withAt > 0 ? raw.slice(0, withAt) : raw;
-  const mapped = mapSynonyms(headPart.filter((w) => !/^\d+([.,]\d+)?$/.test(w) || /%$/.test(w)));
+  const mapped = withAt > 0 ? all.slice(0, withAt) : all;
   const content = mapped.filter((w) => w.length > 0 && (!STOP.has(w) || KEEP_WITH.has(w)));
   const states = new Set<string>();
   for (const w of content) {
@@ -741,6 +742,10 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
     if (SPECIAL_WORDS.has(n)) score -= 4;
   }
   const said = (re: RegExp) => re.test(q.folded);
+  const cookedInName = COOKED_FAMILY.test(folded);
+  const cookedUsualFood =
+    (food.group !== null && USUALLY_COOKED_GROUPS.has(food.group)) ||
+    q.headWords.some((w) => USUALLY_COOKED_WORDS.has(w));
   // "with rice cereal", "with vegetables": another food added, unless the diary says so.
   for (const m of folded.matchAll(/\bwith ([a-z]+)/g)) {
     const w = m[1] as string;
@@ -750,7 +755,14 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
   if (/flavou?r/.test(folded) && !said(/flavou?r/)) score -= 4;
   if (/without added vitamin/.test(folded)) score -= 3;
   // "without X" marks the special variant ("Butter, without salt"), except salt in cooked foods below.
-  if (/\bwithout\b/.test(folded) && !said(/without|sin\b|unsalted|no salt/)) score -= 1.5;
+  const saltOnly =
+    /\bwithout (added )?salt\b/.test(folded) && !/\bwithout (?!(added )?salt\b)/.test(folded);
+  if (
+    /\bwithout\b/.test(folded) &&
+    !said(/without|sin\b|unsalted|no salt/) &&
+    !(saltOnly && cookedInName && (q.states.size > 0 || cookedUsualFood))
+  )
+    score -= 1.5;
   // Brands: a plain generic food first unless a brand is named (all words of it).
   const phrases = [...fx.brandPhrases];
   const owner = food.brandOwner ? words(food.brandOwner)[0] : undefined;
@@ -763,10 +775,6 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
   if (/^(fast foods|restaurant|school lunch)/.test(folded) && !brandNamed) score -= 2;
   // State: what the diary said, else the usual state for the kind of food.
   const nameStates = nw.filter((n) => STATE_WORDS.has(n));
-  const cookedInName = COOKED_FAMILY.test(folded);
-  const cookedUsualFood =
-    (food.group !== null && USUALLY_COOKED_GROUPS.has(food.group)) ||
-    q.headWords.some((w) => USUALLY_COOKED_WORDS.has(w));
   let cookedExpected = q.states.size === 0 && cookedUsualFood;
   if (q.states.size > 0) {
     let cookedAsked = false;
