@@ -30,6 +30,8 @@ export interface PreparedQuery {
   rawWords: Set<string>;
   /** The whole text folded (lower case, no accents). */
   folded: string;
+  /** Words after "with" that name a second food, not matched ("toast with margarine"). */
+  dropped: string[];
 }
 
 export interface ScoredFood<F extends ScorableFood = ScorableFood> {
@@ -551,6 +553,7 @@ export function prepareQuery(text: string): PreparedQuery {
     states,
     rawWords: new Set(raw),
     folded: foldText(text),
+    dropped: withAt > 0 ? all.slice(withAt + 1) : [],
   };
 }
 

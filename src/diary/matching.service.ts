@@ -122,6 +122,11 @@ export class DiaryMatcher {
       return { food: null, method: 'none', confidence: 0, candidates: all, notes };
     }
     const confidence = matchConfidence(top, best[1]);
+    if (q.dropped.length > 0) {
+      notes.push(
+        `only the first food was matched; '${q.dropped.join(' ').slice(0, 60)}' is not counted: enter it as its own line`,
+      );
+    }
     if (confidence < 0.6) notes.push('weak match: check the food');
     return { food: top.food, method: 'text', confidence, candidates, notes };
   }

@@ -193,6 +193,15 @@ describe(`invented demo week (test/fixtures/diary/demo-week.txt) against USDA SR
     expect(g.findings.join(' ')).toContain("quantity 'a handful of' gives no size");
   });
 
+  it.skipIf(skip)(
+    'a second food after "with" is not counted, and the finding says so',
+    async () => {
+      const r = (await service.run({ text: '2 slices toast with margarine\n' })).report;
+      expect(r.entries[0]?.match?.name).toMatch(/^Bread, white/);
+      expect(r.entries[0]?.findings.join(' ')).toContain("'margarine' is not counted");
+    },
+  );
+
   it.skipIf(skip)('offers swaps for the big sources of the week', () => {
     expect(demo.days.some((d) => d.swaps.length > 0)).toBe(true);
   });
