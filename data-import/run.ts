@@ -63,7 +63,6 @@ export async function runImport(
   try {
     writer = SourceWriter.begin(db, { ...meta, importedAt: clock.now().toISOString() });
     await body({ writer, issues, progress });
-    writer.flushValues(); // duplicates found in the last batch are counted as skipped rows
     const counts = writer.commit(issues.skippedRows);
     progress.emit(true);
     return {

@@ -56,8 +56,6 @@ const CORE_COLUMNS: Array<{ column: string; unit: string; tags: string[] }> = [
   { column: 'phytate_mg', unit: 'mg', tags: ['PHYTAC'] },
 ];
 
-const VALUE_BATCH = 500;
-
 const MASS_IN_G: Record<string, number> = { g: 1, mg: 1e-3, µg: 1e-6, ug: 1e-6, ng: 1e-9 };
 
 /** Factor that turns a value in `from` into `to`, or null when they do not convert. */
@@ -82,11 +80,6 @@ export class SourceWriter {
   readonly sourceId: number;
   readonly replaced: boolean;
   private readonly insValue: Database.Statement;
-  private readonly insValueBatch: Database.Statement;
-  // Values are written VALUE_BATCH rows per statement (about 1.7x the rate of one row each).
-  private readonly buf: unknown[] = [];
-  private readonly bufFiles: string[] = [];
-  private readonly bufLines: number[] = [];
   /** Called for a value whose food already has that nutrient in this import (row skipped). */
   onDuplicateValue: (file: string, line: number) => void = () => undefined;
   private readonly insPortion: Database.Statement;
@@ -158,10 +151,6 @@ export class SourceWriter {
       `insert into nutrient_value (food_id, nutrient_def_id, value_per_100g, derivation_code, source_code)
        values (?, ?, ?, ?, ?)`,
     );
-    this.insValueBatch = s.prepare(
-      `insert into nutrient_value (food_id, nutrient_def_id, value_per_100g, derivation_code, source_code)
-       values ${Array.from({ length: VALUE_BATCH }, () => '(?, ?, ?, ?, ?)').join(', ')}`,
-    );
     this.insPortion = s.prepare(
       'insert into portion (food_id, seq, amount, description, grams) values (?, ?, ?, ?, ?)',
     );
@@ -222,7 +211,7 @@ export class SourceWriter {
     }
   }
 
-  /** Adds one value per 100 g (buffered); a duplicate is reported to `onDuplicateValue`. */
+  /** Adds one value per 100 g; a duplicate (food, nutrient) goes to `onDuplicateValue`. */
   addValue(
     foodId: number,
     defId: number,
@@ -232,40 +221,15 @@ export class SourceWriter {
     file: string,
     line: number,
   ): void {
-    this.buf.push(foodId, defId, valuePer100g, derivationCode, sourceCode);
-    this.bufFiles.push(file);
-    this.bufLines.push(line);
-    if (this.bufLines.length === VALUE_BATCH) this.flushValues();
-  }
-
-  /** Writes buffered values; a batch that hits a duplicate is redone row by row to name it. */
-  flushValues(): void {
-    const n = this.bufLines.length;
-    if (n === 0) return;
-    let done = false;
-    if (n === VALUE_BATCH) {
-      try {
-        this.insValueBatch.run(this.buf);
-        this.values += n;
-        done = true;
-      } catch (err) {
-        // A failed statement changes nothing: redo the batch one row at a time below.
-        if ((err as { code?: string }).code !== 'SQLITE_CONSTRAINT_PRIMARYKEY') throw err;
-      }
+    // One prepared single-row statement: measured here faster than 50- or 500-row statements
+    // (bound arrays cost more than they save).
+    try {
+      this.insValue.run(foodId, defId, valuePer100g, derivationCode, sourceCode);
+      this.values++;
+    } catch (err) {
+      if ((err as { code?: string }).code !== 'SQLITE_CONSTRAINT_PRIMARYKEY') throw err;
+      this.onDuplicateValue(file, line);
     }
-    for (let i = 0; !done && i < n; i++) {
-      const o = i * 5;
-      try {
-        this.insValue.run(this.buf.slice(o, o + 5));
-        this.values++;
-      } catch (err) {
-        if ((err as { code?: string }).code !== 'SQLITE_CONSTRAINT_PRIMARYKEY') throw err;
-        this.onDuplicateValue(this.bufFiles[i] as string, this.bufLines[i] as number);
-      }
-    }
-    this.buf.length = 0;
-    this.bufFiles.length = 0;
-    this.bufLines.length = 0;
   }
 
   addPortion(foodId: number, seq: number, amount: number, description: string, grams: number) {
@@ -283,7 +247,6 @@ export class SourceWriter {
    * stored values, indexes names for search, records counts, and commits.
    */
   commit(skipped: number): { foods: number; values: number; portions: number } {
-    this.flushValues();
     const s = this.sqlite;
     const id = this.sourceId;
     if (this.replaced) {

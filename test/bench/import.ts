@@ -104,7 +104,7 @@ export const importBench: BenchSection = {
     const bareRate = n / bareS;
     const impRate = n / impS;
     console.log(
-      `   values: ${fmt(n)} (all of NUT_DATA), foods ${fmt(rows.foods.length)}, median of ${ROUNDS}`,
+      `   values: ${fmt(n)} (all of NUT_DATA), foods ${fmt(rows.foods.length)}, best of ${ROUNDS}`,
     );
     console.log(`   bare insert loop   ${fmt(bareS, 2)} s   ${fmt(bareRate)} values/s`);
     console.log(
