@@ -78,21 +78,37 @@ export function registerAudit(app: FastifyInstance, deps: { db: Db; clock: Clock
     if (patientId == null && cfg.patientOf && status < 500) {
       patientId = await cfg.patientOf(deps.db, request);
     }
-    await recordAudit(
-      deps.db,
-      {
-        userId: request.user.id,
-        username: request.user.username,
-        action: cfg.action,
-        entity: cfg.entity,
-        entityId: entityId ?? null,
-        patientId: patientId ?? null,
-        outcome: status < 400 ? 'ok' : status === 401 || status === 403 ? 'denied' : 'failed',
-        statusCode: status,
-        ...(info.details ? { details: info.details } : {}),
-      },
-      deps.clock,
-    );
+    try {
+      await recordAudit(
+        deps.db,
+        {
+          userId: request.user.id,
+          username: request.user.username,
+          action: cfg.action,
+          entity: cfg.entity,
+          entityId: entityId ?? null,
+          patientId: patientId ?? null,
+          outcome: status < 400 ? 'ok' : status === 401 || status === 403 ? 'denied' : 'failed',
+          statusCode: status,
+          ...(info.details ? { details: info.details } : {}),
+        },
+        deps.clock,
+      );
+    } catch (err) {
+      // Fail closed, and say so without driver text (Fastify answers errors thrown here itself,
+      // bypassing the one error handler, with the raw message).
+      const e = err as { name?: string; code?: string };
+      request.log.error({ err: { type: e.name, code: e.code } }, 'audit write failed');
+      (payload as { destroy?: () => void } | null)?.destroy?.();
+      reply.code(500).header('content-type', 'application/json; charset=utf-8');
+      reply.removeHeader('content-disposition');
+      return JSON.stringify({
+        error: {
+          code: 'PHL_AUDIT_FAILED',
+          message: 'the access could not be recorded in the audit log, so nothing was sent',
+        },
+      });
+    }
     return payload;
   });
 }

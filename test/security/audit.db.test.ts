@@ -160,6 +160,23 @@ describe('route-level audit (config.audit) and request.audit', () => {
     ]);
   });
 
+  it('fails the request instead of sending patient data it could not record', async () => {
+    const inject = await build();
+    db.sqlite.exec(
+      "CREATE TRIGGER audit_broken BEFORE INSERT ON audit_event BEGIN SELECT RAISE(ABORT, 'disk trouble'); END",
+    );
+    const res = await inject({ url: '/api/probe/patients/7' });
+    expect(res.statusCode).toBe(500);
+    expect(res.body).not.toContain('"id":7');
+    expect(res.json()).toEqual({
+      error: {
+        code: 'PHL_AUDIT_FAILED',
+        message: 'the access could not be recorded in the audit log, so nothing was sent',
+      },
+    });
+    expect(res.body).not.toMatch(/SQLITE|disk trouble/);
+  });
+
   it('records nothing for anonymous requests refused with 401 (no user to name)', async () => {
     await build();
     expect((await app.inject({ url: '/api/probe/patients/7' })).statusCode).toBe(401);
