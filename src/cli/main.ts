@@ -9,7 +9,7 @@ function usageLine(c: Command): string {
 }
 
 function helpText(): string {
-  const lines = commands.map((c) => `  ${usageLine(c).padEnd(58)} ${c.summary}`);
+  const lines = commands.map((c) => `  ${usageLine(c)}\n      ${c.summary}`);
   return [
     'phosledger: dietary phosphate load planner (estimates only; the care team decides)',
     '',
