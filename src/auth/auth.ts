@@ -33,11 +33,11 @@ export const userJsonSchema = z.object({
 
 /** How long sessions live and how sign-in failures are throttled. */
 export interface AuthPolicy {
-  /** Session ends after this much inactivity (OWASP ASVS 4.0.3 V3.3.2, level 2: 30 min). */
+  /** Session ends after this much inactivity (OWASP ASVS 4.0.3 V3.3.2, level 2: 30 min; from memory). */
   idleTimeoutMs: number;
-  /** Session ends this long after sign-in whatever happens (ASVS V3.3.2, level 2: 12 h). */
+  /** Session ends this long after sign-in whatever happens (ASVS V3.3.2, level 2: 12 h; from memory). */
   absoluteTimeoutMs: number;
-  /** Consecutive failures on one username before it is locked (ASVS V2.2.1: anti-automation). */
+  /** Consecutive failures on one username before it is locked (ASVS V2.2.1 anti-automation; from memory). */
   userFailureLimit: number;
   /** Failures from one address within the window before the address is locked. */
   addressFailureLimit: number;

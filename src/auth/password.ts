@@ -3,7 +3,7 @@ import { randomBytes, scrypt, timingSafeEqual, type ScryptOptions } from 'node:c
 /**
  * Password hashing with scrypt (RFC 7914). Parameters are one of the equivalent minimum sets of
  * the OWASP Password Storage Cheat Sheet (N = 2^17/r 8/p 1, 2^16/8/2, 2^15/8/3, ...): we take
- * N = 2^15, r = 8, p = 3, which costs the same CPU as 2^17/8/1 with a quarter of the memory
+ * N = 2^15, r = 8, p = 3 (the list from memory), which costs the same CPU as 2^17/8/1 with a quarter of the memory
  * (32 MiB per hash instead of 128 MiB; about 0.45 s on the 2-core development machines). They
  * are stored with each hash, so raising them later breaks nothing: old hashes still verify and
  * are upgraded at the next sign-in.
@@ -24,7 +24,7 @@ export const TEST_SCRYPT_PARAMS: ScryptParams = Object.freeze({ N: 2 ** 10, r: 8
 
 const SALT_BYTES = 16;
 const KEY_BYTES = 32;
-/** NIST SP 800-63B 5.1.1.2: at least 8 characters; we ask for 12 (common practice, no source). */
+/** NIST SP 800-63B 5.1.1.2: at least 8 characters (from memory); we ask for 12 (common practice, no source). */
 export const MIN_PASSWORD_LENGTH = 12;
 /** Upper bound so a huge body cannot tie the CPU up (SP 800-63B allows capping at 64+). */
 export const MAX_PASSWORD_LENGTH = 256;
