@@ -1,3 +1,4 @@
+// Benchmark runner: prints figures, asserts nothing (no expected values, so no sources needed).
 /**
  * `npm run bench`: prints speed and memory figures (not a test; machines are noisy, so each
  * section compares against a bare baseline measured in the same run and prints the ratio).

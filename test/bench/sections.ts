@@ -1,3 +1,4 @@
+// Benchmark registry: no expected values (figures only).
 import { importBench } from './import.js';
 import { phosphorusBench } from './phosphorus.js';
 import { searchBench } from './search.js';

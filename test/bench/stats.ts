@@ -1,3 +1,4 @@
+// Benchmark statistics: nearest-rank percentile (common practice, no source).
 /** Percentile (0-100) of a list of numbers, nearest-rank method. */
 export function percentile(values: readonly number[], p: number): number {
   if (values.length === 0) return Number.NaN;

@@ -1,3 +1,6 @@
+// Sources: unit definitions per NIST Handbook 44 Appendix C (from memory: 1 lb = 453.59237 g,
+// 1 oz = 28.349523125 g, 1 US cup = 236.5882365 ml); gram weights of household measures from
+// USDA SR28 WEIGHT; the diary phrases themselves are invented demo data.
 import { describe, expect, it } from 'vitest';
 import {
   GRAMS_PER_LB,

@@ -1,3 +1,5 @@
+// Sources: run order per the Unicode Bidirectional Algorithm (UAX #9); the Arabic, Latin and
+// number strings are invented demo data.
 import { describe, expect, it } from 'vitest';
 import { TextEngine, type TextSurface } from '../../src/handouts/pdf/text.js';
 

@@ -1,3 +1,5 @@
+// Sources: plural categories per CLDR (through Node's Intl data); digit and grouping forms per
+// CLDR locale data; catalogue strings are the project's own drafted translations.
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';

@@ -1,3 +1,4 @@
+// Sources: 45 CFR 164.312(a)(1) access control; OWASP ASVS 4.0 V4.1.1 (from memory).
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { RouteInfo } from '../../src/auth/auth.plugin.js';
 import { createTestContext, type TestContext } from '../helpers/context.js';

@@ -1,3 +1,5 @@
+// Sources: none needed for numbers (checks structure: labels, public routes, no external URLs);
+// page data is invented demo data.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { PAGE_MODULES } from '../../src/web/assets.js';
 import { PAGES } from '../../src/web/pages.js';

@@ -1,3 +1,5 @@
+// Sources: gram weights from USDA SR28 WEIGHT (NDB numbers beside each case); the 5 kg item
+// limit is the plans API's own rule (common practice, no source).
 import { describe, expect, it } from 'vitest';
 import {
   addDay,
