@@ -20,6 +20,7 @@ import type {
 } from './handout.js';
 import { renderHandoutHtml } from './handout-html.js';
 import { renderHandoutPdf } from './handout-pdf.js';
+import { RenderCache } from './render-cache.js';
 import { buildHandoutViewModel, type HandoutViewModel } from './view-model.js';
 
 /** Where a handout's data comes from (the database in the app; fakes in tests). */
@@ -56,8 +57,15 @@ export interface PreparedHandout {
 
 const WATCH_ADDITIVES: AdditiveLabelEntry[] = selectWatchAdditives(ADDITIVE_CATALOGUE);
 
+/** Rendered PDFs kept per process (a 3-day handout is well under 1 MB; 32 of them at most). */
+const PDF_CACHE_ENTRIES = 32;
+
 /** Builds handouts: the language chosen (asked for, else the patient's, else English). */
 export class HandoutService {
+  private readonly pdfCache = new RenderCache<Awaited<ReturnType<typeof renderHandoutPdf>>>(
+    PDF_CACHE_ENTRIES,
+  );
+
   constructor(
     private readonly sources: HandoutSources,
     private readonly languages: Languages,
@@ -116,7 +124,12 @@ export class HandoutService {
 
   async pdf(planId: number, opts: { lang?: string | undefined; paper: PaperSize }) {
     const { vm, status } = await this.prepare(planId, { lang: opts.lang, mode: 'refuse' });
-    const rendered = await renderHandoutPdf(vm, opts.paper);
+    const key = RenderCache.keyOf(vm, opts.paper);
+    let rendered = this.pdfCache.get(key);
+    if (!rendered) {
+      rendered = await renderHandoutPdf(vm, opts.paper);
+      this.pdfCache.set(key, rendered);
+    }
     if (rendered.missingCodePoints.length > 0 || rendered.notdefRuns > 0) {
       const cps = rendered.missingCodePoints.map(
         (c) => `U+${c.toString(16).toUpperCase().padStart(4, '0')}`,
