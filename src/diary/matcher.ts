@@ -49,6 +49,7 @@ const STOP = new Set(
     'a an the of with and or some my usual little bit few piece pieces plain regular normal homemade ' +
     'home made fresh small medium large big extra glass glasses cup cups bowl mug mugs serving portion ' +
     'x of in on for to from at had ate drank about approx approximately like just also then side ' +
+    'handful handfuls punado ' +
     'de del la el los las un una unos unas con y o al en mi mis poco para ' +
     'vaso taza plato trozo racion porcion chunks chunk cubes cubed diced chopped bits'
   ).split(' '),
@@ -442,7 +443,25 @@ const SPECIAL_WORDS = new Set([
   'light',
   'diet',
   'organic',
+  // Flavoured and textured variants: the plain one unless the diary names it.
+  'chunk',
+  'chocolate',
+  'vanilla',
+  'strawberry',
 ]);
+
+/**
+ * Name words that, right after the diary's food word, make a different product from it ("cashew
+ * butter" for cashews, "grape juice drink" for grape juice).
+ */
+const PRODUCT_NOUNS = new Set(
+  'butter juice drink oil flour sauce soup salad dressing cakes crumbs crust bar bars spread'
+    .split(' ')
+    .map((w) => stem(w)),
+);
+
+/** Sausages and luncheon meats come in poultry versions; the diary means the usual red-meat one. */
+const POULTRY_VARIANTS = new Set(['turkey', 'chicken']);
 
 /** Words after "with" that do not add another food. */
 const WITH_NEUTRAL = new Set([
@@ -472,7 +491,8 @@ const FILLER = new Set(
   (
     'with and or added vitamin vitamins per ounce grams includes such as type types fluid enriched ' +
     'commercially prepared commercial regular ready-to-serve ready-to-eat drained solids liquids ' +
-    'without salt all varieties bottled made from in water meat only cooked boiled flesh equal volume'
+    'without salt all varieties bottled made from in water meat only cooked boiled flesh equal volume ' +
+    'whole ca prop chilled'
   ).split(' '),
 );
 
@@ -739,16 +759,37 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
   const extra = nw.filter(
     (n) => !q.words.some((w) => matchesWord(w, n)) && n.length > 1 && !protoWords.has(n),
   );
+  const fromConcentrate = /\bfrom concentrate\b/.test(folded);
   for (const n of extra) {
-    score -= FILLER.has(n) || bracketed.has(n) || /^\d/.test(n) ? 0.3 : 1.6;
-    // Special products unless asked for.
-    if (SPECIAL_WORDS.has(n)) score -= 4;
+    const filler =
+      FILLER.has(n) ||
+      bracketed.has(n) ||
+      /^\d/.test(n) ||
+      (n === 'concentrate' && fromConcentrate);
+    score -= filler ? 0.3 : 1.6;
+    // Special products unless asked for; "(includes USDA commodity)" only widens the average.
+    if (SPECIAL_WORDS.has(n) && !bracketed.has(n) && !(n === 'concentrate' && fromConcentrate))
+      score -= 4;
+    if (POULTRY_VARIANTS.has(n) && food.group === 'Sausages and Luncheon Meats') score -= 4;
+  }
+  // "cashew butter", "grape juice drink", "corn flake crust": a product made from the diary's food.
+  for (const seg of segments) {
+    for (let i = 1; i < seg.length; i++) {
+      const n = seg[i] as string;
+      if (!PRODUCT_NOUNS.has(stem(n)) || bracketed.has(n) || q.words.some((w) => matchesWord(w, n)))
+        continue;
+      if (q.words.some((w) => matchesWord(w, seg[i - 1] as string))) score -= 5;
+    }
   }
   const said = (re: RegExp) => re.test(q.folded);
   const cookedInName = COOKED_FAMILY.test(folded);
+  const usuallyRoasted =
+    (food.group === 'Nut and Seed Products' && !folded.startsWith('seeds')) ||
+    (q.headWords.includes('peanut') && !q.headWords.includes('butter'));
   const cookedUsualFood =
-    (food.group !== null && USUALLY_COOKED_GROUPS.has(food.group)) ||
-    q.headWords.some((w) => USUALLY_COOKED_WORDS.has(w));
+    !usuallyRoasted &&
+    ((food.group !== null && USUALLY_COOKED_GROUPS.has(food.group)) ||
+      q.headWords.some((w) => USUALLY_COOKED_WORDS.has(w)));
   // "with rice cereal", "with vegetables": another food added, unless the diary says so.
   for (const m of folded.matchAll(/\bwith ([a-z]+)/g)) {
     const w = m[1] as string;
@@ -758,10 +799,14 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
   if (/flavou?r/.test(folded) && !said(/flavou?r/)) score -= 4;
   if (/without added vitamin/.test(folded)) score -= 3;
   // "without X" marks the special variant ("Butter, without salt"), except salt in cooked foods below.
+  // Vitamin C is an optional addition to juices: "without added ascorbic acid" is the plain juice.
+  const withoutText = folded.replace(/\bwithout added ascorbic acid\b/g, '');
+  if (/\bwith added ascorbic acid\b/.test(folded) && !said(/vitamin c|ascorbic/)) score -= 1.5;
   const saltOnly =
-    /\bwithout (added )?salt\b/.test(folded) && !/\bwithout (?!(added )?salt\b)/.test(folded);
+    /\bwithout (added )?salt\b/.test(withoutText) &&
+    !/\bwithout (?!(added )?salt\b)/.test(withoutText);
   if (
-    /\bwithout\b/.test(folded) &&
+    /\bwithout\b/.test(withoutText) &&
     !said(/without|sin\b|unsalted|no salt/) &&
     !(saltOnly && cookedInName && (q.states.size > 0 || cookedUsualFood))
   )
@@ -790,11 +835,20 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
     if (cookedAsked && nameStates.includes('raw')) score -= 8;
     cookedExpected = cookedAsked;
   } else {
-    if (cookedUsualFood) {
+    if (usuallyRoasted) {
+      // Nuts and peanuts are eaten roasted, not boiled or raw.
+      if (/roasted/.test(folded)) score += 6;
+      // Dry roasted and salted is the usual bag; oil roasted and unsalted are the variants.
+      if (/\bdry[ -]roasted\b/.test(folded)) score += 2;
+      if (/\bwithout (added )?salt\b/.test(folded) && !said(/salt/)) score -= 2;
+      else if (cookedInName) score -= 6;
+      if (nameStates.includes('raw')) score -= 3;
+    } else if (cookedUsualFood) {
       if (cookedInName) score += 6;
       if (nameStates.includes('raw')) score -= 6;
     } else {
-      if (nameStates.includes('raw')) score += 3;
+      // A "raw" juice is freshly squeezed; the usual one is bought.
+      if (nameStates.includes('raw')) score += q.headWords.includes('juice') ? -3 : 3;
       if (cookedInName && !/prepared|ready-to/.test(folded)) score -= 3;
     }
     for (const st of ['canned', 'frozen', 'dried', 'smoked', 'microwaved'])
@@ -803,7 +857,11 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
   if (/\b(fried|breaded|batter|battered)\b/.test(folded) && !said(/fri|bread|batter|frit/))
     score -= 3;
   if (/\b(double|triple|jumbo)\b/.test(folded) && !said(/double|triple|jumbo/)) score -= 4;
-  if (NOT_AS_EATEN.test(folded) && !/prepared|cooked/.test(folded) && !said(NOT_AS_EATEN))
+  if (
+    NOT_AS_EATEN.test(folded.replace(/\bfrom concentrate\b/g, '')) &&
+    !/prepared|cooked/.test(folded) &&
+    !said(NOT_AS_EATEN)
+  )
     score -= 5;
   if (DECAF.test(folded) && !said(/decaf|caffeine/)) score -= 3;
   // Cooked vegetables and legumes are tabled without salt; "with salt" entries are derived from them.
