@@ -498,7 +498,7 @@ const FILLER = new Set(
 
 /** Forms that are not food as eaten (diaries record what was eaten), unless also "prepared". */
 const NOT_AS_EATEN =
-  /\b(condensed|dry mix|powder|mix|concentrate|undiluted|dehydrated|unprepared|as purchased|uncooked|unheated|dry(?![ -](heat|roasted)))\b/;
+  /\b(condensed|evaporated|dry mix|powder|mix|concentrate|undiluted|dehydrated|unprepared|as purchased|uncooked|unheated|dry(?![ -](heat|roasted)))\b/;
 const DECAF = /\b(without caffeine|decaffeinated|caffeine free|no caffeine)\b/;
 
 /** Simple English plural stem that still prefix-matches both forms ("berries" -> "berr"). */
@@ -651,7 +651,7 @@ const CATEGORY_HEADS = new Set([
 
 /** Generic-average wording in food-table names: the prototype of a food, not a special one. */
 const PROTOTYPE =
-  /\b(all types|all commercial varieties|year round average|mixed species|regular|plain|commercially prepared|commercial|all grades|all varieties|all flavors|salad or cooking)\b/g;
+  /\b(all types|all commercial varieties|year round average|mixed species|regular|plain|commercially prepared|commercial|all grades|all varieties|all flavors|salad or cooking|unspecified fat content)\b/g;
 
 /** Groups of special foods a diary rarely means unless it names them. */
 const SPECIAL_GROUPS = new Set([
@@ -760,6 +760,18 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
     (n) => !q.words.some((w) => matchesWord(w, n)) && n.length > 1 && !protoWords.has(n),
   );
   const fromConcentrate = /\bfrom concentrate\b/.test(folded);
+  const said = (re: RegExp) => re.test(q.folded);
+  // "2% milk": the fat words of "reduced fat, 2% milkfat" say what the diary said.
+  const fatStated = q.words.some((w) => /^\d+(\.\d+)?%$/.test(w));
+  // Red meat cuts are eaten as served (lean and fat) unless the diary says lean.
+  if (
+    /\bseparable lean only\b/.test(folded) &&
+    !said(/\blean\b/) &&
+    (food.group === 'Beef Products' ||
+      food.group === 'Pork Products' ||
+      food.group === 'Lamb, Veal, and Game Products')
+  )
+    score -= 2;
   for (const n of extra) {
     const filler =
       FILLER.has(n) ||
@@ -768,7 +780,13 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
       (n === 'concentrate' && fromConcentrate);
     score -= filler ? 0.3 : 1.6;
     // Special products unless asked for; "(includes USDA commodity)" only widens the average.
-    if (SPECIAL_WORDS.has(n) && !bracketed.has(n) && !(n === 'concentrate' && fromConcentrate))
+    const fatWord = fatStated && /^(reduced|low|lowfat|nonfat|fat|milkfat)$/.test(n);
+    if (
+      SPECIAL_WORDS.has(n) &&
+      !bracketed.has(n) &&
+      !fatWord &&
+      !(n === 'concentrate' && fromConcentrate)
+    )
       score -= 4;
     if (POULTRY_VARIANTS.has(n) && food.group === 'Sausages and Luncheon Meats') score -= 4;
   }
@@ -781,7 +799,6 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
       if (q.words.some((w) => matchesWord(w, seg[i - 1] as string))) score -= 5;
     }
   }
-  const said = (re: RegExp) => re.test(q.folded);
   const cookedInName = COOKED_FAMILY.test(folded);
   const usuallyRoasted =
     (food.group === 'Nut and Seed Products' && !folded.startsWith('seeds')) ||
@@ -838,10 +855,11 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
     if (usuallyRoasted) {
       // Nuts and peanuts are eaten roasted, not boiled or raw.
       if (/roasted/.test(folded)) score += 6;
+      else if (cookedInName) score -= 6;
       // Dry roasted and salted is the usual bag; oil roasted and unsalted are the variants.
       if (/\bdry[ -]roasted\b/.test(folded)) score += 2;
+      if (/\boil[ -]roasted\b/.test(folded)) score -= 1.5;
       if (/\bwithout (added )?salt\b/.test(folded) && !said(/salt/)) score -= 2;
-      else if (cookedInName) score -= 6;
       if (nameStates.includes('raw')) score -= 3;
     } else if (cookedUsualFood) {
       if (cookedInName) score += 6;
