@@ -61,7 +61,12 @@ export class FoodService {
           group: query.group,
         });
         const first = starts.filter((c) => hasAllWords(words, c.name, c.alt_names));
-        const rest = first.length >= limit ? [] : await fetch(tiers.any);
+        // When the range scan ended below its limit, every main name starting with the first
+        // word is in hand; if enough of them are first-tier to fill the page, FTS matches (lower
+        // tiers only) cannot reach it, so the FTS query is skipped.
+        const pageFull =
+          starts.length < limit && first.filter((c) => tierOf(text, c) === 0).length >= query.limit;
+        const rest = first.length >= limit || pageFull ? [] : await fetch(tiers.any);
         const seen = new Set<number>();
         for (const c of [...first, ...rest]) {
           if (seen.has(c.id)) continue;
