@@ -443,6 +443,7 @@ const SPECIAL_WORDS = new Set([
   'light',
   'diet',
   'organic',
+  'vegetarian',
   // Flavoured and textured variants: the plain one unless the diary names it.
   'chunk',
   'chocolate',
@@ -455,7 +456,7 @@ const SPECIAL_WORDS = new Set([
  * butter" for cashews, "grape juice drink" for grape juice).
  */
 const PRODUCT_NOUNS = new Set(
-  'butter juice drink oil flour sauce soup salad dressing cakes crumbs crust bar bars spread'
+  'butter juice drink oil flour sauce soup salad dressing cakes crumbs crust bar bars spread shells'
     .split(' ')
     .map((w) => stem(w)),
 );
@@ -604,9 +605,14 @@ function nameWords(name: string): string[] {
   return words(normaliseName(foldText(name))).map((w) => w.replace(/^'+|'+$/g, ''));
 }
 
-/** Brand-like phrases of a name: runs of words written in capitals ("TACO BELL", "KELLOGG'S"). */
+/**
+ * Brand-like phrases of a name: runs of words written in capitals ("TACO BELL", "KELLOGG'S"),
+ * outside brackets ("(includes USDA commodity)" names the table's source, not a brand).
+ */
 function brandPhrases(name: string): string[][] {
-  return (name.match(/\b[A-Z][A-Z'&.-]+(?:\s+[A-Z][A-Z'&.-]+)*\b/g) ?? [])
+  return (
+    name.replace(/\([^)]*\)/g, ' ').match(/\b[A-Z][A-Z'&.-]+(?:\s+[A-Z][A-Z'&.-]+)*\b/g) ?? []
+  )
     .filter((p) => p.replace(/[^A-Z]/g, '').length >= 3)
     .map((p) => p.split(/\s+/).map((t) => foldText(t).replace(/'s$/, '').replace(/'/g, '')));
 }
@@ -652,6 +658,11 @@ const CATEGORY_HEADS = new Set([
 /** Generic-average wording in food-table names: the prototype of a food, not a special one. */
 const PROTOTYPE =
   /\b(all types|all commercial varieties|year round average|mixed species|regular|plain|commercially prepared|commercial|all grades|all varieties|all flavors|salad or cooking|unspecified fat content)\b/g;
+
+/** Words of a brand owner's name that are not the brand ("Kellogg Company"). */
+const COMPANY_WORDS = new Set(
+  'inc co company corp corporation llc ltd lp the and of usa international'.split(' '),
+);
 
 /** Groups of special foods a diary rarely means unless it names them. */
 const SPECIAL_GROUPS = new Set([
@@ -763,6 +774,14 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
   const said = (re: RegExp) => re.test(q.folded);
   // "2% milk": the fat words of "reduced fat, 2% milkfat" say what the diary said.
   const fatStated = q.words.some((w) => /^\d+(\.\d+)?%$/.test(w));
+  // Fried chicken is eaten with its skin and batter unless the diary says otherwise.
+  if (
+    food.group === 'Poultry Products' &&
+    /\bmeat only\b/.test(folded) &&
+    said(/fri|frit/) &&
+    !said(/skinless|meat only|no skin|without skin|sin piel/)
+  )
+    score -= 4;
   // Red meat cuts are eaten as served (lean and fat) unless the diary says lean.
   if (
     /\bseparable lean only\b/.test(folded) &&
@@ -780,11 +799,14 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
       (n === 'concentrate' && fromConcentrate);
     score -= filler ? 0.3 : 1.6;
     // Special products unless asked for; "(includes USDA commodity)" only widens the average.
+    // "plain or vegetarian": the alternative named after "plain" is the plain food too.
+    const plainAlternative = new RegExp(`\\bplain or ${n}\\b`).test(folded);
     const fatWord = fatStated && /^(reduced|low|lowfat|nonfat|fat|milkfat)$/.test(n);
     if (
       SPECIAL_WORDS.has(n) &&
       !bracketed.has(n) &&
       !fatWord &&
+      !plainAlternative &&
       !(n === 'concentrate' && fromConcentrate)
     )
       score -= 4;
@@ -830,13 +852,14 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
     score -= 1.5;
   // Brands: a plain generic food first unless a brand is named (all words of it).
   const phrases = [...fx.brandPhrases];
-  const owner = food.brandOwner ? words(food.brandOwner)[0] : undefined;
-  if (owner) phrases.push([owner]);
+  // The whole owner name ("Burger King"), without company words, must be named.
+  const owner = food.brandOwner ? words(food.brandOwner).filter((w) => !COMPANY_WORDS.has(w)) : [];
+  if (owner.length > 0) phrases.push(owner);
   const named = (t: string) =>
     q.rawWords.has(t) || q.rawWords.has(`${t}s`) || q.rawWords.has(t.replace(/s$/, ''));
   const brandNamed = phrases.some((ph) => ph.every(named));
   if (brandNamed) score += 15;
-  else if (food.kind === 'branded' || phrases.length > 0) score -= 10;
+  else if (food.kind === 'branded' || phrases.length > 0) score -= 12;
   if (/^(fast foods|restaurant|school lunch)/.test(folded) && !brandNamed) score -= 2;
   // State: what the diary said, else the usual state for the kind of food.
   const nameStates = nw.filter((n) => STATE_WORDS.has(n));
