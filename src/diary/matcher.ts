@@ -461,6 +461,9 @@ const PRODUCT_NOUNS = new Set(
     .map((w) => stem(w)),
 );
 
+/** Forms a food is made into ("Snacks, popcorn, cakes"): a different product when not asked for. */
+const FORM_NOUNS = new Set(['cakes', 'crumbs', 'crust', 'bar', 'bars', 'shells']);
+
 /** Sausages and luncheon meats come in poultry versions; the diary means the usual red-meat one. */
 const POULTRY_VARIANTS = new Set(['turkey', 'chicken']);
 
@@ -591,6 +594,18 @@ export function searchTexts(q: PreparedQuery): string[] {
   if (h.length > 2) for (let i = 0; i < h.length; i++) add(h.filter((_, j) => j !== i));
   if (h.length > 1) for (const w of h) if (w.length >= 3) add([w]);
   return out.slice(0, 8);
+}
+
+/**
+ * The other spellings of a search text that food-table names use ("lowfat" is also written
+ * "low fat"), searched together with it.
+ */
+export function spellingVariants(text: string): string[] {
+  const split = text
+    .replace(/\blowfat\b/g, 'low fat')
+    .replace(/\bnonfat\b/g, 'non fat')
+    .replace(/\bfat-free\b/g, 'fat free');
+  return split === text ? [] : [split];
 }
 
 /** Spelling variants of food-table names brought to one word ("low fat" = "lowfat"). */
@@ -820,6 +835,22 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
         continue;
       if (q.words.some((w) => matchesWord(w, seg[i - 1] as string))) score -= 5;
     }
+  }
+  for (let i = 1; i < segments.length; i++) {
+    const seg = segments[i] as string[];
+    const before = segments[i - 1] as string[];
+    if (
+      seg.length === 1 &&
+      FORM_NOUNS.has(seg[0] as string) &&
+      !q.rawWords.has(seg[0] as string) &&
+      before.some((n) => q.words.some((w) => matchesWord(w, n)))
+    )
+      score -= 5;
+  }
+  // Fruit as it comes: no sugar or salt added unless the diary says so.
+  if (food.group === 'Fruits and Fruit Juices') {
+    if (/\b(?<!un)sweetened\b/.test(folded) && !said(/sweet|sugar|syrup|azucar/)) score -= 2;
+    if (/\bwith (added )?salt\b/.test(folded) && !said(/salt|sal\b/)) score -= 3;
   }
   const cookedInName = COOKED_FAMILY.test(folded);
   const usuallyRoasted =

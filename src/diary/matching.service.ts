@@ -6,6 +6,7 @@ import {
   prepareQuery,
   rankFoods,
   searchTexts,
+  spellingVariants,
   type ScoredFood,
 } from './matcher.js';
 
@@ -96,8 +97,10 @@ export class DiaryMatcher {
     const seen = new Map<number, Food>();
     let best: ScoredFood<Food>[] = [];
     for (const text of searchTexts(q)) {
-      const found = await this.foods.search({ q: text, limit: SEARCH_LIMIT });
-      for (const f of found) seen.set(f.id, f);
+      for (const t of [text, ...spellingVariants(text)]) {
+        const found = await this.foods.search({ q: t, limit: SEARCH_LIMIT });
+        for (const f of found) seen.set(f.id, f);
+      }
       best = rankFoods(q, [...seen.values()]);
       // Stop once every query word is covered by the best food.
       if (best[0] && best[0].coverage >= 1) break;
