@@ -806,8 +806,11 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
       food.group === 'Lamb, Veal, and Game Products')
   )
     score -= 2;
+  // "red or green", "canned or bottled": an entry naming alternatives covers both.
+  const orWords = new Set(nw.filter((_, i) => nw[i - 1] === 'or' || nw[i + 1] === 'or'));
   for (const n of extra) {
     const filler =
+      orWords.has(n) ||
       FILLER.has(n) ||
       bracketed.has(n) ||
       /^\d/.test(n) ||
@@ -815,7 +818,7 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
     score -= filler ? 0.3 : 1.6;
     // Special products unless asked for; "(includes USDA commodity)" only widens the average.
     // "plain or vegetarian": the alternative named after "plain" is the plain food too.
-    const plainAlternative = new RegExp(`\\bplain or ${n}\\b`).test(folded);
+    const plainAlternative = folded.includes(`plain or ${n}`);
     const fatWord = fatStated && /^(reduced|low|lowfat|nonfat|fat|milkfat)$/.test(n);
     if (
       SPECIAL_WORDS.has(n) &&
@@ -847,6 +850,12 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
     )
       score -= 5;
   }
+  // "peaches in syrup": the packing liquid is eaten too, so not the drained solids.
+  if (
+    /\bdrained\b/.test(folded) &&
+    said(/\b(in|en) (heavy |light )?(syrup|juice|almibar|jugo|zumo)\b/)
+  )
+    score -= 5;
   // Fruit as it comes: no sugar or salt added unless the diary says so.
   if (food.group === 'Fruits and Fruit Juices') {
     if (/\b(?<!un)sweetened\b/.test(folded) && !said(/sweet|sugar|syrup|azucar/)) score -= 2;
