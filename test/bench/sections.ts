@@ -1,4 +1,4 @@
-// Benchmark registry: no expected values (figures only).
+// Benchmark registry: no expected values, so no source to name (figures only).
 import { importBench } from './import.js';
 import { phosphorusBench } from './phosphorus.js';
 import { searchBench } from './search.js';

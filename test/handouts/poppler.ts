@@ -1,4 +1,4 @@
-// Test helper (no expected values of its own): runs Debian poppler-utils on rendered PDFs.
+// Test helper with no expected values of its own (no source needed): runs Debian poppler-utils on rendered PDFs.
 import { execFileSync } from 'node:child_process';
 
 function has(cmd: string): boolean {

@@ -2,6 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import type { Food } from '../../src/foods/food.js';
 import { profileFood, scaleProfile } from '../../src/phosphorus/profile.js';
+import { testFood } from '../helpers/food.js';
 
 // Invented demo foods: any group name, name and nutrient values a table could hold.
 const GROUPS = [
@@ -47,34 +48,15 @@ const foodArb = fc.record({
 type FoodInput = typeof foodArb extends fc.Arbitrary<infer T> ? T : never;
 
 function toFood(x: FoodInput): Food {
-  return {
-    id: 1,
-    sourceId: 1,
+  return testFood({
     source: 'demo',
-    sourceRelease: 'invented',
     code: 'X',
     name: x.name,
-    altNames: [],
     group: x.group,
     kind: x.ingredients ? 'branded' : 'generic',
-    brandOwner: null,
-    gtin: null,
     ingredients: x.ingredients,
-    ingredientsLanguage: null,
-    servingG: null,
-    servingText: null,
-    portions: [],
-    per100g: {
-      phosphorusMg: x.phosphorusMg,
-      proteinG: x.proteinG,
-      energyKcal: null,
-      potassiumMg: null,
-      sodiumMg: null,
-      calciumMg: null,
-      waterG: null,
-      phytateMg: x.phytateMg,
-    },
-  };
+    per100g: { phosphorusMg: x.phosphorusMg, proteinG: x.proteinG, phytateMg: x.phytateMg },
+  });
 }
 
 describe('phosphorus profile properties (fast-check, invented foods)', () => {

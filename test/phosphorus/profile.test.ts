@@ -1,3 +1,4 @@
+import { testFood, type FoodOverrides } from '../helpers/food.js';
 import { describe, expect, it } from 'vitest';
 import { analyzeIngredients } from '../../src/additives/ingredient-parser.js';
 import type { Food } from '../../src/foods/food.js';
@@ -7,39 +8,8 @@ import { hasSr28, SR28_MISSING } from '../helpers/shared.js';
 import { loadAllSr28Foods, sr28Foods } from '../helpers/sr28.js';
 
 /** An invented demo food (not from any table). */
-function demoFood(
-  over: Partial<Omit<Food, 'per100g'>> & { per100g?: Partial<Food['per100g']> },
-): Food {
-  return {
-    id: 1,
-    sourceId: 1,
-    source: 'demo',
-    sourceRelease: 'invented',
-    code: 'DEMO-1',
-    name: 'Demo food',
-    altNames: [],
-    group: null,
-    kind: 'branded',
-    brandOwner: null,
-    gtin: null,
-    ingredients: null,
-    ingredientsLanguage: null,
-    servingG: null,
-    servingText: null,
-    portions: [],
-    ...over,
-    per100g: {
-      phosphorusMg: null,
-      proteinG: null,
-      energyKcal: null,
-      potassiumMg: null,
-      sodiumMg: null,
-      calciumMg: null,
-      waterG: null,
-      phytateMg: null,
-      ...over.per100g,
-    },
-  };
+function demoFood(over: FoodOverrides): Food {
+  return testFood({ source: 'demo', code: 'DEMO-1', name: 'Demo food', kind: 'branded', ...over });
 }
 
 const sum = (p: {

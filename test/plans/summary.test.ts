@@ -1,3 +1,4 @@
+import { testFood } from '../helpers/food.js';
 import { describe, expect, it } from 'vitest';
 import type { Food } from '../../src/foods/food.js';
 import { DEFAULT_ABSORPTION_FRACTIONS } from '../../src/phosphorus/absorption.js';
@@ -15,35 +16,7 @@ function food(
   per100g: Partial<Food['per100g']>,
   group = 'Invented',
 ): Food {
-  return {
-    id,
-    sourceId: 1,
-    source: 'test',
-    sourceRelease: 'invented',
-    code: String(id),
-    name,
-    altNames: [],
-    group,
-    kind: 'generic',
-    brandOwner: null,
-    gtin: null,
-    ingredients: null,
-    ingredientsLanguage: null,
-    servingG: null,
-    servingText: null,
-    per100g: {
-      phosphorusMg: null,
-      proteinG: null,
-      energyKcal: null,
-      potassiumMg: null,
-      sodiumMg: null,
-      calciumMg: null,
-      waterG: null,
-      phytateMg: null,
-      ...per100g,
-    },
-    portions: [],
-  };
+  return testFood({ id, name, group, per100g });
 }
 
 const a = food(1, 'Invented food A', {

@@ -1,3 +1,4 @@
+import { testFood } from '../helpers/food.js';
 import { describe, expect, it } from 'vitest';
 import type { Food } from '../../src/foods/food.js';
 import { DEFAULT_ABSORPTION_FRACTIONS } from '../../src/phosphorus/absorption.js';
@@ -12,22 +13,10 @@ function drink(
   portionG: number | null,
   group = 'Beverages',
 ): Food {
-  return {
+  return testFood({
     id,
-    sourceId: 1,
-    source: 'test',
-    sourceRelease: 'invented',
-    code: String(id),
     name,
-    altNames: [],
     group,
-    kind: 'generic',
-    brandOwner: null,
-    gtin: null,
-    ingredients: null,
-    ingredientsLanguage: null,
-    servingG: null,
-    servingText: null,
     per100g: {
       phosphorusMg,
       proteinG: 0,
@@ -36,11 +25,10 @@ function drink(
       sodiumMg: 5,
       calciumMg: 2,
       waterG: 90,
-      phytateMg: null,
     },
     portions:
       portionG === null ? [] : [{ id: id * 10, description: 'glass', amount: 1, grams: portionG }],
-  };
+  });
 }
 
 describe('swaps for foods without protein are compared per portion', () => {
