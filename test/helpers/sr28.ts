@@ -6,6 +6,7 @@
 import { readFileSync } from 'node:fs';
 import type { Db } from '../../src/db/database.js';
 import type { Food, NutrientsPer100g } from '../../src/foods/food.js';
+import { testFood } from './food.js';
 import { SR28_DIR } from './shared.js';
 
 function readRows(file: string): string[][] {
@@ -36,34 +37,19 @@ export function loadAllSr28Foods(): Map<string, Food> {
   const foods = new Map<string, Food>();
   for (const r of readRows('FOOD_DES.txt')) {
     const ndb = r[0] as string;
-    foods.set(ndb, {
-      id: Number(ndb),
-      sourceId: 1,
-      source: 'usda-sr28',
-      sourceRelease: 'SR28',
-      code: ndb,
-      name: r[2] as string,
-      altNames: r[4] ? [r[4]] : [],
-      group: groups.get(r[1] as string) ?? null,
-      kind: 'generic',
-      brandOwner: r[5] || null,
-      gtin: null,
-      ingredients: null,
-      ingredientsLanguage: null,
-      servingG: null,
-      servingText: null,
-      per100g: {
-        phosphorusMg: null,
-        proteinG: null,
-        energyKcal: null,
-        potassiumMg: null,
-        sodiumMg: null,
-        calciumMg: null,
-        waterG: null,
-        phytateMg: null,
-      },
-      portions: [],
-    });
+    foods.set(
+      ndb,
+      testFood({
+        id: Number(ndb),
+        source: 'usda-sr28',
+        sourceRelease: 'SR28',
+        code: ndb,
+        name: r[2] as string,
+        altNames: r[4] ? [r[4]] : [],
+        group: groups.get(r[1] as string) ?? null,
+        brandOwner: r[5] || null,
+      }),
+    );
   }
   for (const r of readRows('NUT_DATA.txt')) {
     const key = CORE[r[1] as string];
