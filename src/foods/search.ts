@@ -1,4 +1,4 @@
-import { searchWords } from './text.js';
+import { nameWords, searchWords } from './text.js';
 
 export interface RankCandidate {
   id: number;
@@ -37,10 +37,10 @@ export function tierOf(query: string, c: { name: string }): 0 | 1 | 2 {
 }
 
 function tierOfWords(words: readonly string[], c: { name: string }): 0 | 1 | 2 {
-  const nameWords = searchWords(c.name);
+  const have = nameWords(c.name);
   const first = words[0] ?? '';
-  const startsWith = nameWords[0]?.startsWith(first) ?? false;
-  const allInName = words.every((w) => nameWords.some((n) => n.startsWith(w)));
+  const startsWith = have[0]?.startsWith(first) ?? false;
+  const allInName = words.every((w) => have.some((n) => n.startsWith(w)));
   return startsWith && allInName ? 0 : allInName ? 1 : 2;
 }
 

@@ -1,5 +1,10 @@
+// eslint-disable-next-line no-control-regex -- the whole 7-bit range, control characters too
+const ASCII = /^[\x00-\x7f]*$/;
+
 /** Lower-cases and strips diacritics the way the FTS5 tokenizer does (remove_diacritics 2). */
 export function foldText(text: string): string {
+  // Plain ASCII has no marks and no compatibility forms: lower-casing is the whole fold.
+  if (ASCII.test(text)) return text.toLowerCase();
   return text
     .normalize('NFKD')
     .replace(/\p{M}+/gu, '')
@@ -8,7 +13,9 @@ export function foldText(text: string): string {
 
 /** Words of a text as the search sees them: runs of letters and digits, folded. */
 export function searchWords(text: string): string[] {
-  return foldText(text).match(/[\p{L}\p{N}]+/gu) ?? [];
+  const folded = foldText(text);
+  // In ASCII the letters and digits are exactly a-z and 0-9 once lower-cased.
+  return (ASCII.test(folded) ? folded.match(/[a-z0-9]+/g) : folded.match(/[\p{L}\p{N}]+/gu)) ?? [];
 }
 
 /** An FTS5 prefix query for user input: every word quoted (so AND, NEAR, '-' are plain text). */
@@ -26,4 +33,19 @@ export function ftsTierQueries(words: readonly string[]): { first: string; any: 
   const first =
     `name : ^ ${head ?? '""'}` + (rest.length ? ` AND {name alt_names} : (${rest.join(' ')})` : '');
   return { first, any };
+}
+
+/** Food names seen by the ranking; cleared when full (a bound, not a tuned size). */
+const NAME_WORDS_MAX = 50_000;
+const nameWordCache = new Map<string, readonly string[]>();
+
+/** `searchWords` of a food name, remembered: the same names come back search after search. */
+export function nameWords(name: string): readonly string[] {
+  let words = nameWordCache.get(name);
+  if (words === undefined) {
+    if (nameWordCache.size >= NAME_WORDS_MAX) nameWordCache.clear();
+    words = searchWords(name);
+    nameWordCache.set(name, words);
+  }
+  return words;
 }

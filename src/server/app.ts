@@ -21,6 +21,7 @@ import { importRoutes } from '../imports/imports.routes.js';
 import { webRoutes } from '../web/web.routes.js';
 import { handoutRoutes } from '../handouts/handouts.routes.js';
 import { registerErrorHandler } from './error-handler.js';
+import { registerTurns } from './turns.js';
 
 /** Everything the server needs from outside; tests pass a fresh in-memory database. */
 export interface AppDeps {
@@ -64,6 +65,7 @@ export async function buildApp(deps: AppDeps): Promise<App> {
     clock: deps.clock,
     ...(deps.auth ? { auth: deps.auth } : {}),
   });
+  registerTurns(app);
 
   await app.register(swagger, {
     openapi: {

@@ -1,10 +1,13 @@
 /**
  * Consult screens in real Chromium over loopback, on a database holding every USDA SR28 food:
  * type-ahead keystroke-to-rendered latency (goal p95 < 50 ms) against a bare fetch of the same
- * search from the page (the baseline), the plate ledger's first paint (goal < 1 s) and its
- * page weight (goal < 300 kB).
+ * search from the page (the baseline) and a fetch from a bare node:http server (the browser's own
+ * floor on this machine), the plate ledger's first paint (goal < 1 s) and its page weight
+ * (goal < 300 kB). The server runs in its own process, as in a clinic.
  */
 import { existsSync } from 'node:fs';
+import { createServer } from 'node:http';
+import type { AddressInfo } from 'node:net';
 import { insertFoods, loadAllSr28Foods } from '../helpers/sr28.js';
 import { hasSr28, SR28_MISSING } from '../helpers/shared.js';
 import { apiAs, CHROMIUM, openWebHarness, signInThroughPage } from '../web/harness.js';
@@ -184,6 +187,33 @@ export const webBench: BenchSection = {
         return out;
       }, queries);
 
+      // The browser's own floor: the same number of fetches from a page of a bare node:http
+      // server answering a search-sized body at once, so no product code is in the way.
+      const sample = await (
+        await hs.context.request.get(`${hs.baseUrl}/api/foods?q=chicken&limit=12`)
+      ).body();
+      const bare = createServer((_req, res) => {
+        res.writeHead(200, { 'content-type': 'application/json' }).end(sample);
+      });
+      await new Promise<void>((r) => bare.listen(0, '127.0.0.1', r));
+      const floorPage = await hs.context.newPage();
+      let floor: number[];
+      try {
+        await floorPage.goto(`http://127.0.0.1:${(bare.address() as AddressInfo).port}/`);
+        floor = await floorPage.evaluate(async (n) => {
+          const out: number[] = [];
+          for (let i = 0; i < n; i++) {
+            const t0 = performance.now();
+            await (await fetch(`/x?i=${i}`)).json();
+            out.push(performance.now() - t0);
+          }
+          return out;
+        }, queries.length);
+      } finally {
+        await floorPage.close();
+        bare.close();
+      }
+
       const p95 = percentile(lat, 95);
       const b95 = percentile(base, 95);
       line('foods in database (USDA SR28)', fmt(loadAllSr28Foods().size));
@@ -194,6 +224,10 @@ export const webBench: BenchSection = {
       );
       line('baseline bare fetch p50 / p95', `${fmt(percentile(base, 50), 1)} / ${fmt(b95, 1)} ms`);
       line('ratio type-ahead p95 / baseline p95', `${fmt(p95 / b95, 2)}x`);
+      line(
+        'browser floor: fetch from a bare server p50/p95',
+        `${fmt(percentile(floor, 50), 1)} / ${fmt(percentile(floor, 95), 1)} ms (same body, no product code)`,
+      );
       line(
         'plate ledger first contentful paint p50 / max',
         `${fmt(percentile(paints, 50), 0)} / ${fmt(Math.max(...paints), 0)} ms (goal < 1,000 ms)`,

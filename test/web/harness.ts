@@ -1,25 +1,26 @@
 /**
- * Browser-test harness: a real server on 127.0.0.1 (random port) over a temporary SQLite file,
- * an account to sign in with, and Debian's Chromium driven by playwright-core. Nothing leaves
- * the machine: the browser refuses every request that is not to the test server.
+ * Browser-test harness: a real server on 127.0.0.1 (random port, its own process) over a
+ * temporary SQLite file, an account to sign in with, and Debian's Chromium driven by
+ * playwright-core. Nothing leaves the machine: the browser resolves no host name but the test server's, and every request to
+ * anywhere else is recorded in `offsite`.
  */
+import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { createInterface } from 'node:readline';
+import { fileURLToPath } from 'node:url';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
-import { TEST_SCRYPT_PARAMS } from '../../src/auth/password.js';
-import { fixedClock } from '../../src/clock.js';
 import { migrateToLatest, openDb, type Db } from '../../src/db/database.js';
-import { buildApp, type App } from '../../src/server/app.js';
+
+const SERVER = fileURLToPath(new URL('./server-process.ts', import.meta.url));
 
 export const CHROMIUM = '/usr/bin/chromium';
 /** Invented test credentials (never a real account). */
 export const E2E_USER = { username: 'dietitian-e2e', password: 'plate ledger test password 42' };
 
 export interface WebHarness {
-  app: App;
-  db: Db;
   baseUrl: string;
   context: BrowserContext;
   page: Page;
@@ -28,20 +29,36 @@ export interface WebHarness {
   close(): Promise<void>;
 }
 
-/** Opens the server and the browser; `seed` fills the database before the server starts. */
+/** Starts server-process.ts over the database file and waits for its address. */
+async function startServer(file: string): Promise<{ address: string; child: ChildProcess }> {
+  const child = spawn(
+    process.execPath,
+    ['--import', 'tsx', SERVER, file, E2E_USER.username, E2E_USER.password],
+    { stdio: ['pipe', 'pipe', 'inherit'] },
+  );
+  const lines = createInterface({ input: child.stdout! });
+  const address = await new Promise<string>((resolve, reject) => {
+    child.once('exit', (code) => reject(new Error(`test server exited (${code})`)));
+    lines.on('line', (l) => {
+      if (l.startsWith('READY ')) resolve(l.slice(6));
+    });
+  });
+  return { address, child };
+}
+
+/**
+ * Opens the server (in its own process) and the browser; `seed` fills the database file before
+ * the server opens it.
+ */
 export async function openWebHarness(seed: (db: Db) => Promise<void> | void): Promise<WebHarness> {
   const dir = mkdtempSync(join(tmpdir(), 'phosledger-web-'));
-  const db = openDb(join(dir, 'test.sqlite'));
+  const file = join(dir, 'test.sqlite');
+  const db = openDb(file);
   await migrateToLatest(db);
   await seed(db);
-  const app = await buildApp({
-    db,
-    clock: fixedClock('2026-03-05T09:30:00Z'), // invented fixed test time
-    auth: { scryptParams: TEST_SCRYPT_PARAMS },
-  });
-  await app.ready();
-  await app.auth.createUser(E2E_USER.username, 'dietitian', E2E_USER.password);
-  const address = await app.listen({ host: '127.0.0.1', port: 0 });
+  await db.close();
+  const { address, child } = await startServer(file);
+  const exited = new Promise<void>((resolve) => child.once('exit', () => resolve()));
   const context = await chromium.launchPersistentContext(join(dir, 'profile'), {
     executablePath: CHROMIUM,
     headless: true,
@@ -56,35 +73,31 @@ export async function openWebHarness(seed: (db: Db) => Promise<void> | void): Pr
       '--disable-background-networking',
       '--disable-component-update',
       '--disable-sync',
+      // Every host name but the test server's resolves to nothing: no request leaves the machine.
+      '--host-resolver-rules=MAP * ~NOTFOUND, EXCLUDE 127.0.0.1',
+      // and an address typed as digits goes to a closed port instead.
+      '--proxy-server=127.0.0.1:9',
+      '--proxy-bypass-list=127.0.0.1',
     ],
   });
+  // Watched, not intercepted: routing every request through the driver would add its round trip
+  // (~15 ms) to each one the benchmark times. The resolver rule above already stops the browser
+  // from reaching any other host; a request that tries is recorded here.
   const offsite: string[] = [];
-  await context.route('**/*', (route) => {
-    const url = route.request().url();
-    if (
-      url.startsWith(address) ||
-      url.startsWith('data:') ||
-      url.startsWith('blob:') ||
-      url === 'about:blank' ||
-      url.startsWith('about:')
-    ) {
-      return route.continue();
-    }
-    offsite.push(url);
-    return route.abort();
+  context.on('request', (request) => {
+    const url = request.url();
+    if (!url.startsWith(address) && !/^(data|blob|about):/.test(url)) offsite.push(url);
   });
   const page = context.pages()[0] ?? (await context.newPage());
   return {
-    app,
-    db,
     baseUrl: address,
     context,
     page,
     offsite,
     async close() {
       await context.close().catch(() => undefined);
-      await app.close();
-      await db.close();
+      child.stdin!.end();
+      await exited;
       rmSync(dir, { recursive: true, force: true });
     },
   };
