@@ -72,9 +72,46 @@ interface SharedCache {
   results: Map<string, Promise<Food[]>>;
   /** Swaps by food id and settings (they depend on the tables and the absorption settings). */
   swaps: Map<string, Promise<DiarySwap | null>>;
+  /** Foods by id, as search hits and swap candidates load them. */
+  foods: Map<number, Food>;
 }
 const sharedSearches = new WeakMap<object, SharedCache>();
+
+/** Forgets the searches, foods and swaps audits share on this database (benchmarks, tests). */
+export function resetSharedAuditCache(db: Db): void {
+  sharedSearches.delete(db.sqlite);
+}
 const MAX_SHARED = 5000;
+/** Foods kept for audits (SR28 has 8,789; a bound for larger tables, not a tuned size). */
+const MAX_SHARED_FOODS = 20_000;
+
+/**
+ * The food repository as audits see it: foods come from the shared cache when an earlier search
+ * or swap loaded them under the same tables, so the scorer's per-food work is done once.
+ */
+class SharedFoodRepository extends FoodRepository {
+  constructor(
+    db: Db,
+    private readonly cache: () => Promise<SharedCache>,
+  ) {
+    super(db.kysely);
+  }
+
+  override async getFoods(ids: readonly number[]): Promise<Map<number, Food>> {
+    const { foods } = await this.cache();
+    const missing = ids.filter((id) => !foods.has(id));
+    if (missing.length > 0) {
+      if (foods.size + missing.length > MAX_SHARED_FOODS) foods.clear();
+      for (const [id, f] of await super.getFoods(missing)) foods.set(id, f);
+    }
+    const out = new Map<number, Food>();
+    for (const id of ids) {
+      const f = foods.get(id);
+      if (f) out.set(id, f);
+    }
+    return out;
+  }
+}
 
 export class DiaryAuditService {
   private readonly repo: DiaryRepository;
@@ -89,7 +126,7 @@ export class DiaryAuditService {
     private readonly clock: Clock,
   ) {
     this.repo = new DiaryRepository(db.kysely);
-    this.foodRepo = new FoodRepository(db.kysely);
+    this.foodRepo = new SharedFoodRepository(db, () => this.shared());
     this.foodService = new FoodService(this.foodRepo);
     this.patients = new PatientService(db.kysely, clock);
     this.settings = settingsSource(db);
@@ -105,7 +142,7 @@ export class DiaryAuditService {
     const stamp = s.rows[0]?.stamp ?? '';
     let shared = sharedSearches.get(this.db.sqlite);
     if (!shared || shared.stamp !== stamp || shared.results.size > MAX_SHARED) {
-      shared = { stamp, results: new Map(), swaps: new Map() };
+      shared = { stamp, results: new Map(), swaps: new Map(), foods: new Map() };
       sharedSearches.set(this.db.sqlite, shared);
     }
     return shared;

@@ -526,8 +526,15 @@ function stemUncached(word: string): string {
   return word;
 }
 
+// eslint-disable-next-line no-control-regex -- the whole 7-bit range, control characters too
+const ASCII = /^[\x00-\x7f]*$/;
+
 function words(text: string): string[] {
-  return foldText(text).match(/[\p{L}\p{N}%'-]+/gu) ?? [];
+  const folded = foldText(text);
+  // In ASCII the letters and digits are exactly a-z and 0-9 once folded (lower-cased).
+  return (
+    (ASCII.test(folded) ? folded.match(/[a-z0-9%'-]+/g) : folded.match(/[\p{L}\p{N}%'-]+/gu)) ?? []
+  );
 }
 
 /** Applies the phrase and word synonyms, longest phrase first. */
@@ -637,7 +644,9 @@ const COOKED_FAMILY =
 
 /** 1 when a name word is the query word (or its plural), 0.5 for a longer word it starts, else 0. */
 function wordMatch(q: string, nameWord: string): number {
-  if (nameWord === q || stem(nameWord) === q || stem(nameWord) === stem(q)) return 1;
+  if (nameWord === q) return 1;
+  const s = stem(nameWord);
+  if (s === q || s === stem(q)) return 1;
   if (q.length >= 4 && nameWord.startsWith(q)) return 0.5;
   return 0;
 }
@@ -699,20 +708,124 @@ interface NameFeatures {
   prototypes: string[];
   /** Name words outside brackets. */
   outsideBrackets: string[];
+  /** Tests on the folded name alone, made once per name (the scorer asks them per query). */
+  has: NameTests;
+  /** Words right after "with" ("with rice cereal"). */
+  withWords: string[];
+  /** Words on either side of "or" ("red or green"). */
+  orWords: Set<string>;
+  /** Words of the prototypes ("all types", "regular"). */
+  protoWords: Set<string>;
+  /** State words of the name (raw, canned, cooked...). */
+  nameStates: string[];
 }
 
-/** Name features per food object (search results are shared, so this is computed once per food). */
-const featureCache = new WeakMap<object, NameFeatures>();
+/** The name-only tests scoreFood makes, by name. */
+interface NameTests {
+  meatOnly: boolean;
+  separableLeanOnly: boolean;
+  fromConcentrate: boolean;
+  drained: boolean;
+  sweetened: boolean;
+  withSalt: boolean;
+  cooked: boolean;
+  flavour: boolean;
+  withoutAddedVitamin: boolean;
+  withAddedAscorbic: boolean;
+  saltOnlyWithout: boolean;
+  without: boolean;
+  fastFoodHead: boolean;
+  seedsHead: boolean;
+  roasted: boolean;
+  dryRoasted: boolean;
+  oilRoasted: boolean;
+  withoutSalt: boolean;
+  preparedOrReady: boolean;
+  friedOrBattered: boolean;
+  doubleOrJumbo: boolean;
+  notAsEaten: boolean;
+  decaf: boolean;
+}
+
+function nameTests(folded: string): NameTests {
+  const withoutText = folded.replace(/\bwithout added ascorbic acid\b/g, '');
+  return {
+    meatOnly: /\bmeat only\b/.test(folded),
+    separableLeanOnly: /\bseparable lean only\b/.test(folded),
+    fromConcentrate: /\bfrom concentrate\b/.test(folded),
+    drained: /\bdrained\b/.test(folded),
+    sweetened: /\b(?<!un)sweetened\b/.test(folded),
+    withSalt: /\bwith (added )?salt\b/.test(folded),
+    cooked: COOKED_FAMILY.test(folded),
+    flavour: /flavou?r/.test(folded),
+    withoutAddedVitamin: /without added vitamin/.test(folded),
+    withAddedAscorbic: /\bwith added ascorbic acid\b/.test(folded),
+    // Vitamin C is an optional addition to juices: "without added ascorbic acid" is the plain juice.
+    saltOnlyWithout:
+      /\bwithout (added )?salt\b/.test(withoutText) &&
+      !/\bwithout (?!(added )?salt\b)/.test(withoutText),
+    without: /\bwithout\b/.test(withoutText),
+    fastFoodHead: /^(fast foods|restaurant|school lunch)/.test(folded),
+    seedsHead: folded.startsWith('seeds'),
+    roasted: /roasted/.test(folded),
+    dryRoasted: /\bdry[ -]roasted\b/.test(folded),
+    oilRoasted: /\boil[ -]roasted\b/.test(folded),
+    withoutSalt: /\bwithout (added )?salt\b/.test(folded),
+    preparedOrReady: /prepared|ready-to/.test(folded),
+    friedOrBattered: /\b(fried|breaded|batter|battered)\b/.test(folded),
+    doubleOrJumbo: /\b(double|triple|jumbo)\b/.test(folded),
+    notAsEaten:
+      NOT_AS_EATEN.test(folded.replace(/\bfrom concentrate\b/g, '')) &&
+      !/prepared|cooked/.test(folded),
+    decaf: DECAF.test(folded),
+  };
+}
+
+/** Query tests by pattern: a query is scored against dozens of foods, each asking the same. */
+const saidCache = new WeakMap<PreparedQuery, Map<string, boolean>>();
+
+function saidIn(q: PreparedQuery, re: RegExp): boolean {
+  let m = saidCache.get(q);
+  if (!m) {
+    m = new Map();
+    saidCache.set(q, m);
+  }
+  let v = m.get(re.source);
+  if (v === undefined) {
+    v = re.test(q.folded);
+    m.set(re.source, v);
+  }
+  return v;
+}
+
+/**
+ * Name features by what they are computed from (name and household measures): search results are
+ * fresh objects, but the same foods come back entry after entry and audit after audit. Cleared
+ * when full (a bound, not a tuned size).
+ */
+const featureCache = new Map<string, NameFeatures>();
+const FEATURES_MAX = 50_000;
+/** The same, by food object: a search result is scored against every entry that found it. */
+const featuresByObject = new WeakMap<object, NameFeatures>();
 
 function features(food: ScorableFood): NameFeatures {
-  let f = featureCache.get(food);
+  const known = featuresByObject.get(food);
+  if (known) return known;
+  const key =
+    food.portions && food.portions.length > 0
+      ? `${food.name}\u0000${food.portions.map((p) => p.description).join('\u0000')}`
+      : food.name;
+  let f = featureCache.get(key);
   if (!f) {
+    if (featureCache.size >= FEATURES_MAX) featureCache.clear();
     const folded = foldText(food.name);
     const rawSegments = food.name.split(/[,;]/);
     const phrases = brandPhrases(food.name);
+    const nw = nameWords(food.name);
+    const prototypes = folded.match(PROTOTYPE) ?? [];
     f = {
       folded,
-      nw: nameWords(food.name),
+      nw,
       // Words in brackets only clarify ("(includes soft bread crumbs)"): they count as filler.
       bracketed: new Set(nameWords((folded.match(/\([^)]*\)/g) ?? []).join(' '))),
       segments: rawSegments.map((x) => nameWords(x)),
@@ -721,11 +834,17 @@ function features(food: ScorableFood): NameFeatures {
       measureWords: nameWords((food.portions ?? []).map((p) => p.description).join(' ')),
       brandPhrases: phrases,
       brandWords: new Set(phrases.flat()),
-      prototypes: folded.match(PROTOTYPE) ?? [],
+      prototypes,
       outsideBrackets: nameWords(folded.replace(/\([^)]*\)/g, ' ')),
+      has: nameTests(folded),
+      withWords: [...folded.matchAll(/\bwith ([a-z]+)/g)].map((m) => m[1] as string),
+      orWords: new Set(nw.filter((_, i) => nw[i - 1] === 'or' || nw[i + 1] === 'or')),
+      protoWords: new Set(prototypes.flatMap((p) => p.split(' '))),
+      nameStates: nw.filter((n) => STATE_WORDS.has(n)),
     };
-    featureCache.set(food, f);
+    featureCache.set(key, f);
   }
+  featuresByObject.set(food, f);
   return f;
 }
 
@@ -735,7 +854,7 @@ function features(food: ScorableFood): NameFeatures {
  */
 export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
   const fx = features(food);
-  const { folded, nw, bracketed, measureWords, brandWords } = fx;
+  const { folded, nw, bracketed, measureWords, brandWords, has } = fx;
   let segments = fx.segments;
   // "Beverages, tea, black" has its head after the category word.
   if (fx.categoryFirst) {
@@ -781,25 +900,25 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
   }
   score += positionBonus;
   // Unrelated words: a plainer food has fewer.
-  const protoWords = new Set(prototypes.flatMap((p) => p.split(' ')));
+  const protoWords = fx.protoWords;
   const extra = nw.filter(
     (n) => !q.words.some((w) => matchesWord(w, n)) && n.length > 1 && !protoWords.has(n),
   );
-  const fromConcentrate = /\bfrom concentrate\b/.test(folded);
-  const said = (re: RegExp) => re.test(q.folded);
+  const fromConcentrate = has.fromConcentrate;
+  const said = (re: RegExp) => saidIn(q, re);
   // "2% milk": the fat words of "reduced fat, 2% milkfat" say what the diary said.
   const fatStated = q.words.some((w) => /^\d+(\.\d+)?%$/.test(w));
   // Fried chicken is eaten with its skin and batter unless the diary says otherwise.
   if (
     food.group === 'Poultry Products' &&
-    /\bmeat only\b/.test(folded) &&
+    has.meatOnly &&
     said(/fri|frit/) &&
     !said(/skinless|meat only|no skin|without skin|sin piel/)
   )
     score -= 4;
   // Red meat cuts are eaten as served (lean and fat) unless the diary says lean.
   if (
-    /\bseparable lean only\b/.test(folded) &&
+    has.separableLeanOnly &&
     !said(/\blean\b/) &&
     (food.group === 'Beef Products' ||
       food.group === 'Pork Products' ||
@@ -807,7 +926,7 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
   )
     score -= 2;
   // "red or green", "canned or bottled": an entry naming alternatives covers both.
-  const orWords = new Set(nw.filter((_, i) => nw[i - 1] === 'or' || nw[i + 1] === 'or'));
+  const orWords = fx.orWords;
   for (const n of extra) {
     const filler =
       orWords.has(n) ||
@@ -851,41 +970,34 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
       score -= 5;
   }
   // "peaches in syrup": the packing liquid is eaten too, so not the drained solids.
-  if (
-    /\bdrained\b/.test(folded) &&
-    said(/\b(in|en) (heavy |light )?(syrup|juice|almibar|jugo|zumo)\b/)
-  )
+  if (has.drained && said(/\b(in|en) (heavy |light )?(syrup|juice|almibar|jugo|zumo)\b/))
     score -= 5;
   // Fruit as it comes: no sugar or salt added unless the diary says so.
   if (food.group === 'Fruits and Fruit Juices') {
-    if (/\b(?<!un)sweetened\b/.test(folded) && !said(/sweet|sugar|syrup|azucar/)) score -= 2;
-    if (/\bwith (added )?salt\b/.test(folded) && !said(/salt|sal\b/)) score -= 3;
+    if (has.sweetened && !said(/sweet|sugar|syrup|azucar/)) score -= 2;
+    if (has.withSalt && !said(/salt|sal\b/)) score -= 3;
   }
-  const cookedInName = COOKED_FAMILY.test(folded);
+  const cookedInName = has.cooked;
   const usuallyRoasted =
-    (food.group === 'Nut and Seed Products' && !folded.startsWith('seeds')) ||
+    (food.group === 'Nut and Seed Products' && !has.seedsHead) ||
     (q.headWords.includes('peanut') && !q.headWords.includes('butter'));
   const cookedUsualFood =
     !usuallyRoasted &&
     ((food.group !== null && USUALLY_COOKED_GROUPS.has(food.group)) ||
       q.headWords.some((w) => USUALLY_COOKED_WORDS.has(w)));
   // "with rice cereal", "with vegetables": another food added, unless the diary says so.
-  for (const m of folded.matchAll(/\bwith ([a-z]+)/g)) {
-    const w = m[1] as string;
+  for (const w of fx.withWords) {
     if (!WITH_NEUTRAL.has(w) && !q.words.some((x) => wordMatch(x, w) === 1)) score -= 3;
   }
 
-  if (/flavou?r/.test(folded) && !said(/flavou?r/)) score -= 4;
-  if (/without added vitamin/.test(folded)) score -= 3;
+  if (has.flavour && !said(/flavou?r/)) score -= 4;
+  if (has.withoutAddedVitamin) score -= 3;
   // "without X" marks the special variant ("Butter, without salt"), except salt in cooked foods below.
   // Vitamin C is an optional addition to juices: "without added ascorbic acid" is the plain juice.
-  const withoutText = folded.replace(/\bwithout added ascorbic acid\b/g, '');
-  if (/\bwith added ascorbic acid\b/.test(folded) && !said(/vitamin c|ascorbic/)) score -= 1.5;
-  const saltOnly =
-    /\bwithout (added )?salt\b/.test(withoutText) &&
-    !/\bwithout (?!(added )?salt\b)/.test(withoutText);
+  if (has.withAddedAscorbic && !said(/vitamin c|ascorbic/)) score -= 1.5;
+  const saltOnly = has.saltOnlyWithout;
   if (
-    /\bwithout\b/.test(withoutText) &&
+    has.without &&
     !said(/without|sin\b|unsalted|no salt/) &&
     !(saltOnly && cookedInName && (q.states.size > 0 || cookedUsualFood))
   )
@@ -900,9 +1012,9 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
   const brandNamed = phrases.some((ph) => ph.every(named));
   if (brandNamed) score += 15;
   else if (food.kind === 'branded' || phrases.length > 0) score -= 12;
-  if (/^(fast foods|restaurant|school lunch)/.test(folded) && !brandNamed) score -= 2;
+  if (has.fastFoodHead && !brandNamed) score -= 2;
   // State: what the diary said, else the usual state for the kind of food.
-  const nameStates = nw.filter((n) => STATE_WORDS.has(n));
+  const nameStates = fx.nameStates;
   let cookedExpected = q.states.size === 0 && cookedUsualFood;
   if (q.states.size > 0) {
     let cookedAsked = false;
@@ -917,12 +1029,12 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
   } else {
     if (usuallyRoasted) {
       // Nuts and peanuts are eaten roasted, not boiled or raw.
-      if (/roasted/.test(folded)) score += 6;
+      if (has.roasted) score += 6;
       else if (cookedInName) score -= 6;
       // Dry roasted and salted is the usual bag; oil roasted and unsalted are the variants.
-      if (/\bdry[ -]roasted\b/.test(folded)) score += 2;
-      if (/\boil[ -]roasted\b/.test(folded)) score -= 1.5;
-      if (/\bwithout (added )?salt\b/.test(folded) && !said(/salt/)) score -= 2;
+      if (has.dryRoasted) score += 2;
+      if (has.oilRoasted) score -= 1.5;
+      if (has.withoutSalt && !said(/salt/)) score -= 2;
       if (nameStates.includes('raw')) score -= 3;
     } else if (cookedUsualFood) {
       if (cookedInName) score += 6;
@@ -930,24 +1042,17 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
     } else {
       // A "raw" juice is freshly squeezed; the usual one is bought.
       if (nameStates.includes('raw')) score += q.headWords.includes('juice') ? -3 : 3;
-      if (cookedInName && !/prepared|ready-to/.test(folded)) score -= 3;
+      if (cookedInName && !has.preparedOrReady) score -= 3;
     }
     for (const st of ['canned', 'frozen', 'dried', 'smoked', 'microwaved'])
       if (nameStates.includes(st)) score -= 3;
   }
-  if (/\b(fried|breaded|batter|battered)\b/.test(folded) && !said(/fri|bread|batter|frit/))
-    score -= 3;
-  if (/\b(double|triple|jumbo)\b/.test(folded) && !said(/double|triple|jumbo/)) score -= 4;
-  if (
-    NOT_AS_EATEN.test(folded.replace(/\bfrom concentrate\b/g, '')) &&
-    !/prepared|cooked/.test(folded) &&
-    !said(NOT_AS_EATEN)
-  )
-    score -= 5;
-  if (DECAF.test(folded) && !said(/decaf|caffeine/)) score -= 3;
+  if (has.friedOrBattered && !said(/fri|bread|batter|frit/)) score -= 3;
+  if (has.doubleOrJumbo && !said(/double|triple|jumbo/)) score -= 4;
+  if (has.notAsEaten && !said(NOT_AS_EATEN)) score -= 5;
+  if (has.decaf && !said(/decaf|caffeine/)) score -= 3;
   // Cooked vegetables and legumes are tabled without salt; "with salt" entries are derived from them.
-  if (cookedExpected && cookedInName && /\bwithout (added )?salt\b/.test(folded) && !said(/\bsalt/))
-    score += 3;
+  if (cookedExpected && cookedInName && has.withoutSalt && !said(/\bsalt/)) score += 3;
   // Foods with more household measures in the table are commonly eaten ones.
   score += Math.min(8, food.portions?.length ?? 0) * PORTION_WEIGHT;
   return { food, score, coverage };
@@ -960,12 +1065,14 @@ export function rankFoods<F extends ScorableFood>(
   q: PreparedQuery,
   foods: readonly F[],
 ): ScoredFood<F>[] {
-  return foods
-    .map((f) => scoreFood(q, f) as ScoredFood<F>)
-    .sort(
-      (a, b) =>
-        b.score - a.score || a.food.name.length - b.food.name.length || a.food.id - b.food.id,
-    );
+  return sortScored(foods.map((f) => scoreFood(q, f) as ScoredFood<F>));
+}
+
+/** Best first: higher score, then the shorter name, then the lower id (sorts in place). */
+export function sortScored<F extends ScorableFood>(scored: ScoredFood<F>[]): ScoredFood<F>[] {
+  return scored.sort(
+    (a, b) => b.score - a.score || a.food.name.length - b.food.name.length || a.food.id - b.food.id,
+  );
 }
 
 /**

@@ -81,19 +81,19 @@ export class FoodRepository {
   async getFoods(ids: readonly number[]): Promise<Map<number, Food>> {
     const out = new Map<number, Food>();
     const unique = [...new Set(ids)];
-    // Chunked to stay far below SQLite's bound-parameter limit.
+    // The ids go in as one JSON array: one SQL text (a kept statement) for any number of ids.
     for (let i = 0; i < unique.length; i += 5000) {
-      const chunk = unique.slice(i, i + 5000);
+      const idsJson = JSON.stringify(unique.slice(i, i + 5000));
       const rows = await this.db
         .selectFrom('food')
         .innerJoin('food_source', 'food_source.id', 'food.source_id')
         .select(foodColumns)
-        .where('food.id', 'in', chunk)
+        .where(sql<boolean>`food.id in (select value from json_each(${idsJson}))`)
         .execute();
       const portionRows = await this.db
         .selectFrom('portion')
         .select(['id', 'food_id', 'description', 'amount', 'grams'])
-        .where('food_id', 'in', chunk)
+        .where(sql<boolean>`food_id in (select value from json_each(${idsJson}))`)
         .orderBy('food_id')
         .orderBy('seq')
         .execute();
