@@ -86,7 +86,7 @@ export const handoutRoutes: FastifyPluginAsync<HandoutRoutesOptions> = async (ap
   api.get(
     '/plans/:id/handout',
     {
-      config: { patientData: true, audit: audit('plan.handout.view') },
+      config: { patientData: true, webPage: true, audit: audit('plan.handout.view') },
       schema: {
         tags: ['handouts'],
         summary: "The plan's handout as an HTML print view, with the clinic's translation panel",

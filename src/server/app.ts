@@ -18,7 +18,7 @@ import { diaryRoutes } from '../diary/diary.routes.js';
 import { additivesRoutes } from '../additives/additives.routes.js';
 import { settingsRoutes } from '../settings/settings.routes.js';
 import { importRoutes } from '../imports/imports.routes.js';
-import { webRoutes } from '../web/web.routes.js';
+import { redirectScreensToSignIn, webRoutes } from '../web/web.routes.js';
 import { handoutRoutes } from '../handouts/handouts.routes.js';
 import { registerErrorHandler } from './error-handler.js';
 import { registerTurns } from './turns.js';
@@ -66,6 +66,7 @@ export async function buildApp(deps: AppDeps): Promise<App> {
     ...(deps.auth ? { auth: deps.auth } : {}),
   });
   registerTurns(app);
+  redirectScreensToSignIn(app);
 
   await app.register(swagger, {
     openapi: {

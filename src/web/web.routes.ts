@@ -1,4 +1,4 @@
-import type { FastifyPluginAsync } from 'fastify';
+import type { FastifyInstance, FastifyPluginAsync } from 'fastify';
 import { loadAssets } from './assets.js';
 import { compilePages, PAGES } from './pages.js';
 
@@ -42,15 +42,21 @@ export const webRoutes: FastifyPluginAsync = async (app) => {
     );
   }
 
-  // A protected screen refused with 401 becomes a redirect to sign-in that comes back here.
+};
+
+/**
+ * On the root instance, so it covers every HTML screen whichever plugin serves it (the handout
+ * print view too): a screen refused with 401 becomes a redirect to sign-in that comes back here.
+ */
+export function redirectScreensToSignIn(app: FastifyInstance): void {
   app.addHook('onSend', async (req, reply, payload) => {
-    if (reply.statusCode !== 401 || req.routeOptions.config.webPage !== true) return payload;
+    if (reply.statusCode !== 401 || req.routeOptions.config?.webPage !== true) return payload;
     reply.status(303);
     reply.header('location', `/signin?next=${encodeURIComponent(req.url)}`);
     reply.header('content-type', 'text/plain; charset=utf-8');
     return 'sign in first';
   });
-};
+}
 
 declare module 'fastify' {
   interface FastifyContextConfig {

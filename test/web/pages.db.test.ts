@@ -28,6 +28,18 @@ describe('consult screens over HTTP', () => {
     }
   });
 
+  it('sends an anonymous visitor of a handout print view to sign-in, with its language kept', async () => {
+    // The handout view is served by the handouts routes, not the screen list above.
+    const url = '/plans/1/handout?lang=es';
+    const res = await ctx.app.inject({ url });
+    expect(res.statusCode).toBe(303);
+    expect(res.headers.location).toBe(`/signin?next=${encodeURIComponent(url)}`);
+    // The API stays JSON: scripts get a 401 they can act on.
+    const api = await ctx.app.inject({ url: '/api/plans/1/handout.pdf' });
+    expect(api.statusCode).toBe(401);
+    expect(api.json().error.code).toBe('PHL_AUTH_REQUIRED');
+  });
+
   it('serves the sign-in screen and the assets without a session', async () => {
     const signin = await ctx.app.inject({ url: '/signin' });
     expect(signin.statusCode).toBe(200);
