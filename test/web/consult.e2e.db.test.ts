@@ -214,6 +214,32 @@ describe.skipIf(!canRun)('consult screens in Chromium (USDA SR28 foods)', () => 
     await shot(page, '05-swaps');
   });
 
+  it('opens an earlier saved version read-only from the version list', async () => {
+    const current = await phosphorusTotal(page);
+    // Every change above was saved as a version; the list shows them newest first.
+    const items = page.locator('#version-list li');
+    await expect.poll(() => items.count(), POLL).toBeGreaterThan(5);
+    expect(await page.locator('#version-list [aria-current="page"]').textContent()).toContain(
+      '(current)',
+    );
+    // Version 2 holds the first food only (bread 58 g, USDA SR28 NDB 18069: 98 mg P per 100 g
+    // -> 56.84 mg, shown as "57 mg"), as it was saved before the other four were added.
+    await page.locator('#version-list a', { hasText: /^Version 2$/ }).click();
+    await page.waitForURL('**/plans/*?version=2');
+    await expect.poll(() => phosphorusTotal(page), POLL).toBe('57 mg');
+    expect(current).not.toBe('57 mg');
+    expect(await page.locator('#past-banner').isVisible()).toBe(true);
+    expect(await page.locator('#past-title').textContent()).toContain('Version 2');
+    expect(await page.locator('.adder').isVisible()).toBe(false);
+    const controls = page.locator('#day-panel input, #day-panel button');
+    expect(await controls.count()).toBeGreaterThan(0);
+    for (const el of await controls.all()) expect(await el.isDisabled()).toBe(true);
+    await expectAccessible(page);
+    await shot(page, '05b-saved-version');
+    await page.click('#past-current-link');
+    await expect.poll(() => phosphorusTotal(page), POLL).toBe(current);
+  });
+
   it('opens the take-home sheet in Spanish and downloads its PDF', async () => {
     await page.goto(`${planUrl}/preview`);
     await expect.poll(() => page.locator('#handout-lang').inputValue(), POLL).toBe('es');

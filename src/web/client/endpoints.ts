@@ -5,7 +5,10 @@ export const endpoints = {
   patientTargets: (id: string | number) => `/api/patients/${id}/targets`,
   patientPlans: (id: string | number) => `/api/patients/${id}/plans`,
   plan: (id: string | number) => `/api/plans/${id}`,
-  planSummary: (id: string | number) => `/api/plans/${id}/summary`,
+  planSummary: (id: string | number, version?: number) =>
+    `/api/plans/${id}/summary${version ? `?version=${version}` : ''}`,
+  planVersions: (id: string | number) => `/api/plans/${id}/versions`,
+  planVersion: (id: string | number, version: number) => `/api/plans/${id}/versions/${version}`,
   planBinders: (id: string | number) => `/api/plans/${id}/binders`,
   swaps: (foodId: number, limit = 5) => `/api/swaps/${foodId}?limit=${limit}`,
   food: (id: number) => `/api/foods/${id}`,

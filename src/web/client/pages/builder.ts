@@ -42,6 +42,11 @@ interface FoodInfo {
 }
 
 const planId = pageParams().id ?? '';
+/** A saved version opened from the version list (`?version=N`): shown as it was, not editable. */
+const pastVersion = (() => {
+  const v = Number(new URLSearchParams(location.search).get('version'));
+  return Number.isInteger(v) && v > 0 ? v : null;
+})();
 const foods = new Map<number, FoodInfo>();
 let plan: PlanJson | undefined;
 let draft: PlanDraft = { name: '', days: [] };
@@ -81,6 +86,7 @@ async function commit(next: PlanDraft): Promise<void> {
     dirty = false;
     setSaveState(saved.version ? `Saved as version ${saved.version}` : 'Saved');
     await refreshSummary(mine);
+    void renderVersions();
   } catch (err) {
     if (mine === summarySeq) setSaveState(`Not saved: ${errorText(err)}`, true);
   }
@@ -319,12 +325,17 @@ function quantityCell(day: number, occ: number, k: number, item: DraftItem): HTM
   });
   const sel = h(
     'select',
-    { 'aria-label': `Measure for ${name}`, 'data-focus-key': `measure-${day}-${occ}-${k}` },
+    {
+      'aria-label': `Measure for ${name}`,
+      'data-focus-key': `measure-${day}-${occ}-${k}`,
+      title: measure ? measureText(measure) : 'grams',
+    },
     measures.map((m) =>
       h(
         'option',
         { value: String(m.id), selected: m.id === item.measure?.portionId },
-        measureText(m),
+        // Short in the row, where the column is narrow: "slice · 29 g".
+        `${m.description} · ${gramsFor(1, m)} g`,
       ),
     ),
     h('option', { value: 'g', selected: !measure }, 'g'),
@@ -521,6 +532,13 @@ function renderMeals(): void {
       );
     }),
   );
+  // A saved version is read, not changed: its quantity, word and remove controls are shown off.
+  if (pastVersion !== null) {
+    for (const el of panel.querySelectorAll<HTMLInputElement | HTMLButtonElement>(
+      'input, select, button',
+    ))
+      el.disabled = true;
+  }
   // Re-rendering replaces the rows: give focus back to the control that had it.
   if (focusKey) panel.querySelector<HTMLElement>(`[data-focus-key="${focusKey}"]`)?.focus();
 }
@@ -841,6 +859,67 @@ byId<HTMLFormElement>('add-occasion-form').addEventListener('submit', (e) => {
   void commit(addOccasion(draft, activeDay, name));
 });
 
+// ---- saved versions --------------------------------------------------------------------------
+
+interface VersionInfo {
+  version: number;
+  name: string;
+  note: string | null;
+  createdAt: string;
+  days: number;
+}
+
+function savedAt(iso: string): string {
+  return new Intl.DateTimeFormat('en-GB', { dateStyle: 'medium', timeStyle: 'short' }).format(
+    new Date(iso),
+  );
+}
+
+/** Every saved version, newest first; the one on screen is marked, the others open read-only. */
+async function renderVersions(): Promise<void> {
+  const list = byId('version-list');
+  let versions: VersionInfo[];
+  try {
+    versions = await api<VersionInfo[]>('GET', endpoints.planVersions(planId));
+  } catch (err) {
+    fill(list, h('li', { class: 'status error' }, `Versions unavailable: ${errorText(err)}`));
+    return;
+  }
+  const latest = versions.at(-1)?.version ?? null;
+  const shown = pastVersion ?? latest;
+  fill(
+    list,
+    [...versions].reverse().map((v) => {
+      const label = `Version ${v.version}${v.version === latest ? ' (current)' : ''}`;
+      const detail = ` · ${savedAt(v.createdAt)} · ${v.days} ${v.days === 1 ? 'day' : 'days'}${v.note ? ` · ${v.note}` : ''}`;
+      const href =
+        v.version === latest ? `/plans/${planId}` : `/plans/${planId}?version=${v.version}`;
+      return h(
+        'li',
+        { value: String(v.version) },
+        v.version === shown
+          ? h('strong', { 'aria-current': 'page' }, label)
+          : h('a', { href }, label),
+        h('span', { class: 'muted small' }, detail),
+      );
+    }),
+  );
+}
+
+/** The banner and the hidden editing tools of a saved version opened read-only. */
+function showPastVersion(p: PlanJson & { savedAt?: string }): void {
+  byId('past-banner').hidden = false;
+  byId('past-title').textContent =
+    `Version ${p.version ?? pastVersion}, as saved${p.savedAt ? ` ${savedAt(p.savedAt)}` : ''}.`;
+  byId('past-text').textContent =
+    'Saved versions do not change, so this one cannot be edited; the totals are those it froze.';
+  byId<HTMLAnchorElement>('past-current-link').href = `/plans/${planId}`;
+  for (const sel of ['.adder', '.day-tools']) {
+    const el = document.querySelector<HTMLElement>(sel);
+    if (el) el.hidden = true;
+  }
+}
+
 // ---- start -----------------------------------------------------------------------------------
 
 async function loadFood(id: number, name?: string): Promise<void> {
@@ -855,12 +934,18 @@ async function loadFood(id: number, name?: string): Promise<void> {
 
 async function start(): Promise<void> {
   // The summary is asked for at once, beside the plan: the totals need no other request.
-  const summaryP = api<PlanSummary>('GET', endpoints.planSummary(planId)).then(
+  const summaryP = api<PlanSummary>(
+    'GET',
+    endpoints.planSummary(planId, pastVersion ?? undefined),
+  ).then(
     (v) => ({ ok: true as const, v }),
     (err: unknown) => ({ ok: false as const, err }),
   );
   try {
-    plan = await api<PlanJson>('GET', endpoints.plan(planId));
+    plan = await api<PlanJson>(
+      'GET',
+      pastVersion === null ? endpoints.plan(planId) : endpoints.planVersion(planId, pastVersion),
+    );
   } catch (err) {
     fill(
       byId('day-panel'),
@@ -875,12 +960,14 @@ async function start(): Promise<void> {
   link.href = `/patients/${plan.patientId}`;
   link.textContent = 'Patient record';
   byId<HTMLAnchorElement>('handout-link').href = `/plans/${planId}/preview`;
+  if (pastVersion !== null) showPastVersion(plan);
+  void renderVersions();
   const ids = new Set(
     draft.days.flatMap((d) => d.occasions.flatMap((o) => o.items.map((i) => i.foodId))),
   );
   // Household measures of the foods already in the plan arrive in the background.
   const foodsP = Promise.all([...ids].map((id) => loadFood(id)));
-  searchInput.focus();
+  if (pastVersion === null) searchInput.focus();
   const res = await summaryP;
   if (res.ok) summary = res.v;
   else setSaveState(`Totals unavailable: ${errorText(res.err)}`, true);
