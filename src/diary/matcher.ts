@@ -617,6 +617,7 @@ export function spellingVariants(text: string): string[] {
 
 /** Spelling variants of food-table names brought to one word ("low fat" = "lowfat"). */
 function normaliseName(folded: string): string {
+  if (!folded.includes('fat')) return folded; // every rewrite below is about "fat"
   return folded
     .replace(/\blow[ -]fat\b/g, 'lowfat')
     .replace(/\bnon[ -]fat\b/g, 'nonfat')
@@ -624,7 +625,8 @@ function normaliseName(folded: string): string {
 }
 
 function nameWords(name: string): string[] {
-  return words(normaliseName(foldText(name))).map((w) => w.replace(/^'+|'+$/g, ''));
+  const ws = words(normaliseName(foldText(name)));
+  return name.includes("'") ? ws.map((w) => w.replace(/^'+|'+$/g, '')) : ws;
 }
 
 /**
@@ -748,29 +750,34 @@ interface NameTests {
 }
 
 function nameTests(folded: string): NameTests {
-  const withoutText = folded.replace(/\bwithout added ascorbic acid\b/g, '');
+  // Cheap substring checks first: most names have no "with", "roast" or "fat" words at all.
+  const withs = folded.includes('with');
+  const withoutText = withs ? folded.replace(/\bwithout added ascorbic acid\b/g, '') : folded;
+  const roast = folded.includes('roast');
   return {
-    meatOnly: /\bmeat only\b/.test(folded),
-    separableLeanOnly: /\bseparable lean only\b/.test(folded),
-    fromConcentrate: /\bfrom concentrate\b/.test(folded),
-    drained: /\bdrained\b/.test(folded),
-    sweetened: /\b(?<!un)sweetened\b/.test(folded),
-    withSalt: /\bwith (added )?salt\b/.test(folded),
+    meatOnly: folded.includes('meat only') && /\bmeat only\b/.test(folded),
+    separableLeanOnly:
+      folded.includes('separable lean only') && /\bseparable lean only\b/.test(folded),
+    fromConcentrate: folded.includes('from concentrate') && /\bfrom concentrate\b/.test(folded),
+    drained: folded.includes('drained') && /\bdrained\b/.test(folded),
+    sweetened: folded.includes('sweetened') && /\b(?<!un)sweetened\b/.test(folded),
+    withSalt: withs && /\bwith (added )?salt\b/.test(folded),
     cooked: COOKED_FAMILY.test(folded),
-    flavour: /flavou?r/.test(folded),
-    withoutAddedVitamin: /without added vitamin/.test(folded),
-    withAddedAscorbic: /\bwith added ascorbic acid\b/.test(folded),
+    flavour: folded.includes('flavo') && /flavou?r/.test(folded),
+    withoutAddedVitamin: withs && folded.includes('without added vitamin'),
+    withAddedAscorbic: withs && /\bwith added ascorbic acid\b/.test(folded),
     // Vitamin C is an optional addition to juices: "without added ascorbic acid" is the plain juice.
     saltOnlyWithout:
+      withs &&
       /\bwithout (added )?salt\b/.test(withoutText) &&
       !/\bwithout (?!(added )?salt\b)/.test(withoutText),
-    without: /\bwithout\b/.test(withoutText),
+    without: withs && /\bwithout\b/.test(withoutText),
     fastFoodHead: /^(fast foods|restaurant|school lunch)/.test(folded),
     seedsHead: folded.startsWith('seeds'),
-    roasted: /roasted/.test(folded),
-    dryRoasted: /\bdry[ -]roasted\b/.test(folded),
-    oilRoasted: /\boil[ -]roasted\b/.test(folded),
-    withoutSalt: /\bwithout (added )?salt\b/.test(folded),
+    roasted: roast && folded.includes('roasted'),
+    dryRoasted: roast && /\bdry[ -]roasted\b/.test(folded),
+    oilRoasted: roast && /\boil[ -]roasted\b/.test(folded),
+    withoutSalt: withs && /\bwithout (added )?salt\b/.test(folded),
     preparedOrReady: /prepared|ready-to/.test(folded),
     friedOrBattered: /\b(fried|breaded|batter|battered)\b/.test(folded),
     doubleOrJumbo: /\b(double|triple|jumbo)\b/.test(folded),
@@ -799,25 +806,14 @@ function saidIn(q: PreparedQuery, re: RegExp): boolean {
 }
 
 /**
- * Name features by what they are computed from (name and household measures): search results are
- * fresh objects, but the same foods come back entry after entry and audit after audit. Cleared
- * when full (a bound, not a tuned size).
+ * Name features per food object. Audits share their food objects (loaded once per table state),
+ * so a food's features are worked out once however many entries and audits find it.
  */
-const featureCache = new Map<string, NameFeatures>();
-const FEATURES_MAX = 50_000;
-/** The same, by food object: a search result is scored against every entry that found it. */
 const featuresByObject = new WeakMap<object, NameFeatures>();
 
 function features(food: ScorableFood): NameFeatures {
-  const known = featuresByObject.get(food);
-  if (known) return known;
-  const key =
-    food.portions && food.portions.length > 0
-      ? `${food.name}\u0000${food.portions.map((p) => p.description).join('\u0000')}`
-      : food.name;
-  let f = featureCache.get(key);
+  let f = featuresByObject.get(food);
   if (!f) {
-    if (featureCache.size >= FEATURES_MAX) featureCache.clear();
     const folded = foldText(food.name);
     const rawSegments = food.name.split(/[,;]/);
     const phrases = brandPhrases(food.name);
@@ -842,9 +838,8 @@ function features(food: ScorableFood): NameFeatures {
       protoWords: new Set(prototypes.flatMap((p) => p.split(' '))),
       nameStates: nw.filter((n) => STATE_WORDS.has(n)),
     };
-    featureCache.set(key, f);
+    featuresByObject.set(food, f);
   }
-  featuresByObject.set(food, f);
   return f;
 }
 
