@@ -166,11 +166,13 @@ describe('handout routes and CLI', () => {
     expect(missing.statusCode).toBe(404);
   });
 
-  it('answers 401 without a session', async () => {
+  it('answers 401 without a session (the HTML view sends a browser to sign-in)', async () => {
     const pdf = await ctx.app.inject({ method: 'GET', url: '/api/plans/1/handout.pdf' });
     expect(pdf.statusCode).toBe(401);
     const html = await ctx.app.inject({ method: 'GET', url: '/plans/1/handout' });
-    expect(html.statusCode).toBe(401);
+    expect(html.statusCode).toBe(303);
+    expect(html.headers.location).toBe('/signin?next=%2Fplans%2F1%2Fhandout');
+    expect(html.body).not.toContain('<html');
   });
 
   it('lists the languages with their review status', async () => {
