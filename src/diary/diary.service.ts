@@ -77,10 +77,6 @@ interface SharedCache {
 }
 const sharedSearches = new WeakMap<object, SharedCache>();
 
-/** Forgets the searches, foods and swaps audits share on this database (benchmarks, tests). */
-export function resetSharedAuditCache(db: Db): void {
-  sharedSearches.delete(db.sqlite);
-}
 const MAX_SHARED = 5000;
 /** Foods kept for audits (SR28 has 8,789; a bound for larger tables, not a tuned size). */
 const MAX_SHARED_FOODS = 20_000;
