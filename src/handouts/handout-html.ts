@@ -130,6 +130,8 @@ export interface HtmlOptions {
   status?: LanguageStatus;
   /** For the PDF links in the clinic panel. */
   planId?: number;
+  /** The saved version shown, when not the latest (kept in the PDF links). */
+  version?: number | undefined;
 }
 
 /**
@@ -149,7 +151,7 @@ export function renderHandoutHtml(vm: HandoutViewModel, opts: HtmlOptions = {}):
       ? null
       : {
           label: p === 'a4' ? 'A4' : 'US Letter',
-          href: `/api/plans/${opts.planId}/handout.pdf?lang=${encodeURIComponent(vm.language)}&paper=${p}`,
+          href: `/api/plans/${opts.planId}/handout.pdf?lang=${encodeURIComponent(vm.language)}&paper=${p}${opts.version ? `&version=${opts.version}` : ''}`,
         };
   return template({
     vm,

@@ -95,6 +95,12 @@ export const handoutQuerySchema = z
       )
       .optional(),
     paper: z.enum(PAPER_SIZES).default('a4'),
+    /** A saved version of the plan (default: the latest). */
+    version: z.coerce
+      .number()
+      .int('version must be a whole number')
+      .positive('version must be positive')
+      .optional(),
   })
   .strict();
 export type HandoutQuery = z.infer<typeof handoutQuerySchema>;

@@ -71,6 +71,7 @@ export const handoutRoutes: FastifyPluginAsync<HandoutRoutesOptions> = async (ap
     async (req, reply) => {
       const pdf = await service.pdf(req.params.id, {
         lang: req.query.lang,
+        version: req.query.version,
         paper: req.query.paper,
       });
       return reply
@@ -97,6 +98,7 @@ export const handoutRoutes: FastifyPluginAsync<HandoutRoutesOptions> = async (ap
     async (req, reply) => {
       const view = await service.html(req.params.id, {
         lang: req.query.lang,
+        version: req.query.version,
         paper: req.query.paper,
       });
       return reply

@@ -25,7 +25,8 @@ import { buildHandoutViewModel, type HandoutViewModel } from './view-model.js';
 
 /** Where a handout's data comes from (the database in the app; fakes in tests). */
 export interface HandoutSources {
-  summary(planId: number): Promise<HandoutSummary>;
+  /** The plan's summary: its latest version, or the saved version asked for. */
+  summary(planId: number, version?: number): Promise<HandoutSummary>;
   patient(patientId: number): Promise<HandoutPatient>;
   clinic(): Promise<HandoutClinic>;
 }
@@ -41,13 +42,20 @@ export function handoutSourcesFromDb(db: Db, clock: Clock): HandoutSources {
   const patients = new PatientService(db.kysely, clock);
   const settings = new SettingsService(db, clock);
   return {
-    summary: (planId) => plans.getSummary(planId),
+    summary: (planId, version) => plans.getSummary(planId, version),
     async patient(patientId) {
       const p = await patients.get(patientId);
       return { label: p.label, language: p.language };
     },
     clinic: () => settings.get('clinic'),
   };
+}
+
+/** What a handout is asked for with: language, paper and, for a past sheet, the saved version. */
+export interface HandoutOptions {
+  lang?: string | undefined;
+  paper: PaperSize;
+  version?: number | undefined;
 }
 
 export interface PreparedHandout {
@@ -84,9 +92,9 @@ export class HandoutService {
    */
   async prepare(
     planId: number,
-    opts: { lang?: string | undefined; mode: 'refuse' | 'mark' },
+    opts: { lang?: string | undefined; version?: number | undefined; mode: 'refuse' | 'mark' },
   ): Promise<PreparedHandout> {
-    const summary = await this.sources.summary(planId);
+    const summary = await this.sources.summary(planId, opts.version);
     const [patient, clinic] = await Promise.all([
       this.sources.patient(summary.patientId),
       this.sources.clinic(),
@@ -122,8 +130,12 @@ export class HandoutService {
     return { vm: built.value, status: bundle.status() };
   }
 
-  async pdf(planId: number, opts: { lang?: string | undefined; paper: PaperSize }) {
-    const { vm, status } = await this.prepare(planId, { lang: opts.lang, mode: 'refuse' });
+  async pdf(planId: number, opts: HandoutOptions) {
+    const { vm, status } = await this.prepare(planId, {
+      lang: opts.lang,
+      version: opts.version,
+      mode: 'refuse',
+    });
     const key = RenderCache.keyOf(vm, opts.paper);
     let rendered = this.pdfCache.get(key);
     if (!rendered) {
@@ -146,17 +158,22 @@ export class HandoutService {
       pageCount: rendered.pageCount,
       language: vm.language,
       status,
-      filename: `plan-${planId}-${vm.language}-${opts.paper}.pdf`,
+      filename: `plan-${planId}${opts.version ? `-v${opts.version}` : ''}-${vm.language}-${opts.paper}.pdf`,
     };
   }
 
-  async html(planId: number, opts: { lang?: string | undefined; paper: PaperSize }) {
-    const prepared = await this.prepare(planId, { lang: opts.lang, mode: 'mark' });
+  async html(planId: number, opts: HandoutOptions) {
+    const prepared = await this.prepare(planId, {
+      lang: opts.lang,
+      version: opts.version,
+      mode: 'mark',
+    });
     return {
       html: renderHandoutHtml(prepared.vm, {
         paper: opts.paper,
         status: prepared.status,
         planId,
+        version: opts.version,
       }),
       language: prepared.vm.language,
       status: prepared.status,

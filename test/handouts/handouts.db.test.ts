@@ -69,10 +69,11 @@ function planBody(f: Food[]) {
 describe('handout routes and CLI', () => {
   let ctx: TestContext;
   let planId: number;
+  let foods: Food[];
   beforeEach(async () => {
     ctx = await createTestContext();
     if (!hasSr28) return;
-    const foods = insertFoods(ctx.db, sr28Foods(...NDB));
+    foods = insertFoods(ctx.db, sr28Foods(...NDB));
     const p = await ctx.inject({ method: 'POST', url: '/api/patients', payload: patientBody });
     expect(p.statusCode).toBe(201);
     const plan = await ctx.inject({
@@ -165,6 +166,49 @@ describe('handout routes and CLI', () => {
     const missing = await ctx.inject({ method: 'GET', url: '/api/plans/999/handout.pdf' });
     expect(missing.statusCode).toBe(404);
   });
+
+  it.skipIf(!hasSr28)(
+    t('shows an earlier saved version when asked, the latest otherwise'),
+    async () => {
+      // Version 2 adds a dinner of 80 g more chicken (labelled "cena de pollo"); version 1 has none.
+      const body = planBody(foods);
+      const day = body.days[0]!;
+      const chicken = day.occasions[1]!.items[0]!.foodId;
+      const dinner = {
+        name: 'Dinner',
+        time: '20:00',
+        items: [{ foodId: chicken, grams: 80, label: 'cena de pollo' }],
+      };
+      const put = await ctx.inject({
+        method: 'PUT',
+        url: `/api/plans/${planId}`,
+        payload: { ...body, days: [{ ...day, occasions: [...day.occasions, dinner] }] },
+      });
+      expect(put.statusCode, put.body).toBe(200);
+      const view = (q: string) =>
+        ctx.inject({ method: 'GET', url: `/plans/${planId}/handout?lang=es${q}` });
+      const latest = await view('');
+      const first = await view('&version=1');
+      expect(latest.statusCode).toBe(200);
+      expect(first.statusCode).toBe(200);
+      expect(latest.body).toContain('cena de pollo');
+      expect(first.body).not.toContain('cena de pollo');
+      expect(first.body).toContain('pollo asado');
+      // The clinic panel's PDF links keep the version (attribute text as Handlebars escapes it).
+      const links = first.body.replaceAll('&amp;', '&').replaceAll('&#x3D;', '=');
+      expect(links).toContain(`/api/plans/${planId}/handout.pdf?lang=es&paper=a4&version=1`);
+      const pdf = await ctx.inject({
+        method: 'GET',
+        url: `/api/plans/${planId}/handout.pdf?version=1`,
+      });
+      expect(pdf.statusCode).toBe(200);
+      expect(pdf.headers['content-disposition']).toContain(`plan-${planId}-v1-es-a4.pdf`);
+      const missing = await view('&version=9');
+      expect(missing.statusCode).toBe(404);
+      const bad = await view('&version=zero');
+      expect(bad.statusCode).toBe(400);
+    },
+  );
 
   it('answers 401 without a session (the HTML view sends a browser to sign-in)', async () => {
     const pdf = await ctx.app.inject({ method: 'GET', url: '/api/plans/1/handout.pdf' });

@@ -231,6 +231,10 @@ describe.skipIf(!canRun)('consult screens in Chromium (USDA SR28 foods)', () => 
     expect(await page.locator('#past-banner').isVisible()).toBe(true);
     expect(await page.locator('#past-title').textContent()).toContain('Version 2');
     expect(await page.locator('.adder').isVisible()).toBe(false);
+    // Its take-home sheet is the sheet of that version.
+    expect(await page.locator('#handout-link').getAttribute('href')).toMatch(
+      /\/plans\/\d+\/preview\?version=2$/,
+    );
     const controls = page.locator('#day-panel input, #day-panel button');
     expect(await controls.count()).toBeGreaterThan(0);
     for (const el of await controls.all()) expect(await el.isDisabled()).toBe(true);

@@ -12,10 +12,10 @@ export const endpoints = {
   planBinders: (id: string | number) => `/api/plans/${id}/binders`,
   swaps: (foodId: number, limit = 5) => `/api/swaps/${foodId}?limit=${limit}`,
   food: (id: number) => `/api/foods/${id}`,
-  handoutHtml: (planId: string | number, lang: string) =>
-    `/plans/${planId}/handout?lang=${encodeURIComponent(lang)}`,
-  handoutPdf: (planId: string | number, lang: string, paper: string) =>
-    `/api/plans/${planId}/handout.pdf?lang=${encodeURIComponent(lang)}&paper=${paper}`,
+  handoutHtml: (planId: string | number, lang: string, version?: number | null) =>
+    `/plans/${planId}/handout?lang=${encodeURIComponent(lang)}${version ? `&version=${version}` : ''}`,
+  handoutPdf: (planId: string | number, lang: string, paper: string, version?: number | null) =>
+    `/api/plans/${planId}/handout.pdf?lang=${encodeURIComponent(lang)}&paper=${paper}${version ? `&version=${version}` : ''}`,
   diaryAudits: '/api/diary-audits',
   diaryAudit: (id: string | number) => `/api/diary-audits/${id}`,
   diaryAuditPdf: (id: string | number) => `/api/diary-audits/${id}.pdf`,

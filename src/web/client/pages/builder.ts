@@ -959,7 +959,8 @@ async function start(): Promise<void> {
   const link = byId<HTMLAnchorElement>('crumb-patient-link');
   link.href = `/patients/${plan.patientId}`;
   link.textContent = 'Patient record';
-  byId<HTMLAnchorElement>('handout-link').href = `/plans/${planId}/preview`;
+  byId<HTMLAnchorElement>('handout-link').href =
+    `/plans/${planId}/preview${pastVersion === null ? '' : `?version=${pastVersion}`}`;
   if (pastVersion !== null) showPastVersion(plan);
   void renderVersions();
   const ids = new Set(

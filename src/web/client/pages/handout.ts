@@ -6,11 +6,17 @@ import type { Patient } from '../patient-types.js';
 
 initChrome();
 const planId = pageParams().id ?? '';
+/** A sheet for an earlier saved version (`?version=N`, from a read-only plate ledger). */
+const version = (() => {
+  const v = Number(new URLSearchParams(location.search).get('version'));
+  return Number.isInteger(v) && v > 0 ? v : null;
+})();
 const langSel = byId<HTMLSelectElement>('handout-lang');
 const paperSel = byId<HTMLSelectElement>('handout-paper');
 const frame = byId<HTMLIFrameElement>('handout-frame');
 const pdf = byId<HTMLAnchorElement>('handout-pdf');
-byId<HTMLAnchorElement>('back-to-plan').href = `/plans/${planId}`;
+byId<HTMLAnchorElement>('back-to-plan').href =
+  `/plans/${planId}${version ? `?version=${version}` : ''}`;
 
 /**
  * The print view is fetched and shown in a same-origin frame through `srcdoc` (the server
@@ -18,9 +24,12 @@ byId<HTMLAnchorElement>('back-to-plan').href = `/plans/${planId}`;
  */
 async function show(): Promise<void> {
   const lang = langSel.value;
-  pdf.href = endpoints.handoutPdf(planId, lang, paperSel.value);
-  pdf.setAttribute('download', `plan-${planId}-${lang}-${paperSel.value}.pdf`);
-  const url = new URL(location.origin + endpoints.handoutHtml(planId, lang));
+  pdf.href = endpoints.handoutPdf(planId, lang, paperSel.value, version);
+  pdf.setAttribute(
+    'download',
+    `plan-${planId}${version ? `-v${version}` : ''}-${lang}-${paperSel.value}.pdf`,
+  );
+  const url = new URL(location.origin + endpoints.handoutHtml(planId, lang, version));
   url.searchParams.set('paper', paperSel.value);
   try {
     const res = await fetch(url, { credentials: 'same-origin', headers: { accept: 'text/html' } });
