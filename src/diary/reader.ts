@@ -726,6 +726,36 @@ function readHeadings(
   return { day, dayProblem, occasion, time, rest, heading: rest === '' };
 }
 
+/** A free-text line holding an ingredient statement, in the languages of the CSV headers. */
+const INGREDIENTS_LINE =
+  /^(?:ingredients?|ingredientes|ingr[ée]dients|zutaten|ingredienti)\s*[:：]\s*(.*)$/i;
+
+/** Gives the entry above its ingredient statement; an issue when there is none to give it to. */
+function attachIngredients(
+  entry: DiaryEntryInput | undefined,
+  text: string,
+  line: number,
+): DiaryIssue | null {
+  const statement = text.trim();
+  if (!entry) {
+    return {
+      line,
+      code: 'PHL_DIARY_INGREDIENTS_ALONE',
+      message: 'an ingredient statement needs the food it belongs to on the line above',
+    };
+  }
+  const joined = entry.ingredients ? `${entry.ingredients} ${statement}` : statement;
+  if (joined.length > DIARY_LIMITS.maxIngredientChars) {
+    return {
+      line,
+      code: 'PHL_DIARY_INGREDIENTS_TOO_LONG',
+      message: `the ingredient statement is ${joined.length} characters long; the most read is ${DIARY_LIMITS.maxIngredientChars}`,
+    };
+  }
+  if (statement) entry.ingredients = joined;
+  return null;
+}
+
 function readText(text: string, opts: ReadOptions): DiaryReadResult {
   const lines = text.split(/\r\n|\n|\r/);
   const entries: DiaryEntryInput[] = [];
@@ -733,11 +763,22 @@ function readText(text: string, opts: ReadOptions): DiaryReadResult {
   let day: DayRead = { date: null, label: '' };
   let occasion: string | null = null;
   let time: string | null = null;
+  // The entry an ingredient statement on the next line belongs to (none after a heading).
+  let above: DiaryEntryInput | undefined;
   for (const [i, rawLine] of lines.entries()) {
     const line = i + 1;
     const stripped = rawLine.replace(/^\s*(?:[-*•·]|\d{1,3}[.)](?!\d))\s+/, '').trim();
     if (!stripped || stripped.startsWith('#')) continue;
+    // "ingredients: ..." under an entry is that entry's ingredient statement (a label typed in or
+    // transcribed from a photo), as the CSV's ingredients column.
+    const statement = INGREDIENTS_LINE.exec(stripped);
+    if (statement) {
+      const issue = attachIngredients(above, statement[1] as string, line);
+      if (issue) skipped.push(issue);
+      continue;
+    }
     if (stripped.length > DIARY_LIMITS.maxEntryChars) {
+      above = undefined;
       skipped.push({
         line,
         code: 'PHL_DIARY_LINE_TOO_LONG',
@@ -759,27 +800,27 @@ function readText(text: string, opts: ReadOptions): DiaryReadResult {
     }
     if (h.time) time = h.time;
     if (h.heading) {
+      above = undefined;
       if (flags.length > 0)
         skipped.push({ line, code: 'PHL_DIARY_DATE', message: flags.join('; ') });
       continue;
     }
     if (entries.length >= DIARY_LIMITS.maxEntries) return tooMany();
-    entries.push(
-      entryFromText(
-        {
-          line,
-          date: day.date,
-          dayLabel: day.label,
-          occasion,
-          time,
-          barcode: null,
-          ingredients: null,
-        },
-        h.rest,
-        '',
-        flags,
-      ),
+    above = entryFromText(
+      {
+        line,
+        date: day.date,
+        dayLabel: day.label,
+        occasion,
+        time,
+        barcode: null,
+        ingredients: null,
+      },
+      h.rest,
+      '',
+      flags,
     );
+    entries.push(above);
   }
   if (entries.length === 0) {
     return {

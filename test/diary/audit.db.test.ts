@@ -271,6 +271,24 @@ describe(`additive findings on invented branded products (${note})`, () => {
       expect(cake?.findings.join(' ')).toContain('sodium aluminium phosphate');
     },
   );
+
+  it.skipIf(skip)(
+    'a pasted diary gives the same finding from an "ingredients:" line under the entry',
+    async () => {
+      const text = [
+        'Tuesday',
+        'dinner: chocolate cake 1 slice',
+        'ingredients: Sugar, wheat flour, cocoa, eggs, sodium aluminium phosphate, salt',
+      ].join('\n');
+      const pasted = (await service.run({ text })).report.entries[0];
+      const fromCsv = r.entries[3];
+      expect(pasted?.match?.foodId).toBe(fromCsv?.match?.foodId);
+      expect(pasted?.splitMethod).toBe('ingredient-statement');
+      expect(pasted?.hidden).toBe(true);
+      expect(pasted?.additivePhosphorusMg).toBe(fromCsv?.additivePhosphorusMg);
+      expect(pasted?.findings.join(' ')).toContain('sodium aluminium phosphate');
+    },
+  );
 });
 
 describe(`confirmed or changed matches are remembered for the clinic (${note})`, () => {

@@ -150,6 +150,53 @@ describe('readDiary: CSV with the documented columns', () => {
   });
 });
 
+describe('readDiary: ingredient statements in free text (invented demo products)', () => {
+  it('an "ingredients:" line is the statement of the entry above it', () => {
+    const d = read(
+      [
+        'Monday',
+        'snack: Crunchy oat bites (invented brand) 1 bar',
+        'ingredients: oats, sugar, sodium tripolyphosphate, salt',
+        'lunch: 2 slices white bread',
+        'Ingredientes: harina de trigo, agua, levadura',
+        'Ingredientes: fosfato monocálcico',
+      ].join('\n'),
+    );
+    expect(d.entries.map((e) => [e.line, e.foodText, e.ingredients])).toEqual([
+      [
+        2,
+        expect.stringContaining('Crunchy oat bites'),
+        'oats, sugar, sodium tripolyphosphate, salt',
+      ],
+      [4, 'white bread', 'harina de trigo, agua, levadura fosfato monocálcico'],
+    ]);
+    expect(d.skipped).toEqual([]);
+  });
+
+  it('a statement with no entry above it (first line, or after a heading) is reported', () => {
+    const d = read('ingredients: sugar\nbread\nTuesday\nIngredients: salt\nmilk\n');
+    expect(d.entries.map((e) => [e.foodText, e.ingredients])).toEqual([
+      ['bread', null],
+      ['milk', null],
+    ]);
+    expect(d.skipped.map((s) => [s.line, s.code])).toEqual([
+      [1, 'PHL_DIARY_INGREDIENTS_ALONE'],
+      [4, 'PHL_DIARY_INGREDIENTS_ALONE'],
+    ]);
+  });
+
+  it('a statement longer than a line may be, up to the ingredient limit, is read', () => {
+    // 900 characters: over the 500 of an entry line, under the 5,000 of a statement.
+    const long = Array.from({ length: 100 }, (_, i) => `item${String(i).padStart(3, '0')}`).join(
+      ', ',
+    );
+    expect(long.length).toBe(898);
+    const d = read(`cake 1 slice\ningredients: ${long}\ningredients: ${'x'.repeat(5_000)}\n`);
+    expect(d.entries[0]?.ingredients).toBe(long);
+    expect(d.skipped[0]).toMatchObject({ line: 3, code: 'PHL_DIARY_INGREDIENTS_TOO_LONG' });
+  });
+});
+
 describe('bad input: clear errors or flagged lines, never a throw', () => {
   it('empty file and empty text', () => {
     expect(decodeDiaryBytes(new Uint8Array())).toMatchObject({ ok: false });
