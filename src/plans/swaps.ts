@@ -1,5 +1,6 @@
 import type { Food } from '../foods/food.js';
 import type { AbsorptionFractions } from '../phosphorus/absorption.js';
+import { searchWords } from '../foods/text.js';
 import { profileFood } from '../phosphorus/profile.js';
 
 /** Below this protein (g/100 g) a food is compared per portion instead (common practice, no source). */
@@ -24,6 +25,8 @@ export interface SwapCandidate {
   portion: { description: string; grams: number } | null;
   per100g: { phosphorusMg: number | null; proteinG: number | null };
   additiveLikely: boolean;
+  /** The same kind of food: its name starts with the original's first word ("Cheese, ..."). */
+  sameKind: boolean;
 }
 
 export interface SwapResult {
@@ -78,9 +81,16 @@ export function smallestTypicalFraction(f: AbsorptionFractions): number {
   );
 }
 
+/** The first word of a food-table name, folded ("Cheese, cottage, ..." -> "cheese"). */
+function kindWord(name: string): string {
+  return searchWords(name)[0] ?? '';
+}
+
 /**
  * Ranks candidate swaps (pure): same food group, clearly less absorbable phosphorus per g
- * protein (or per portion for foods without protein), best first, at most `limit` (<= 5).
+ * protein (or per portion for foods without protein), at most `limit` (<= 5). Foods of the same
+ * kind come first (cheese for cheese, bread for bread: a swap the patient will make), then the
+ * rest of the group; least absorbable phosphorus first within each.
  */
 export function rankSwaps(
   original: Food,
@@ -92,8 +102,8 @@ export function rankSwaps(
   const portion = basis === 'per-portion' ? comparisonPortion(original) : null;
   const rule =
     basis === 'per-g-protein'
-      ? `same food group, at least ${SWAP_MIN_PROTEIN_G_PER_100G} g protein per 100 g and at least ${SWAP_MIN_PROTEIN_SHARE * 100}% of this food's protein density, and at most ${Math.round(opts.maxShare * 100)}% of its absorbable phosphorus per g protein`
-      : `same food group, little or no protein, and at most ${Math.round(opts.maxShare * 100)}% of its absorbable phosphorus per portion`;
+      ? `same food group, at least ${SWAP_MIN_PROTEIN_G_PER_100G} g protein per 100 g and at least ${SWAP_MIN_PROTEIN_SHARE * 100}% of this food's protein density, and at most ${Math.round(opts.maxShare * 100)}% of its absorbable phosphorus per g protein; the same kind of food first`
+      : `same food group, little or no protein, and at most ${Math.round(opts.maxShare * 100)}% of its absorbable phosphorus per portion; the same kind of food first`;
   const base = {
     foodId: original.id,
     name: original.name,
@@ -106,6 +116,7 @@ export function rankSwaps(
   if (orig === null || orig <= 0) return { ...base, swaps: [] };
   const limit = Math.max(0, Math.min(MAX_SWAPS, opts.limit));
   const origProt = original.per100g.proteinG ?? 0;
+  const kind = kindWord(original.name);
   const out: SwapCandidate[] = [];
   for (const c of candidates) {
     if (c.id === original.id || c.group !== original.group) continue;
@@ -127,11 +138,15 @@ export function rankSwaps(
       portion: basis === 'per-portion' ? comparisonPortion(c) : null,
       per100g: { phosphorusMg: c.per100g.phosphorusMg, proteinG: c.per100g.proteinG },
       additiveLikely: prof.additiveLikely || prof.additiveEvidentFromName,
+      sameKind: kind !== '' && kindWord(c.name) === kind,
     });
   }
   out.sort(
     (a, b) =>
-      a.absorbableMg - b.absorbableMg || a.name.localeCompare(b.name) || a.foodId - b.foodId,
+      Number(b.sameKind) - Number(a.sameKind) ||
+      a.absorbableMg - b.absorbableMg ||
+      a.name.localeCompare(b.name) ||
+      a.foodId - b.foodId,
   );
   return { ...base, swaps: out.slice(0, limit) };
 }

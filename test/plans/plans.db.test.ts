@@ -479,7 +479,7 @@ describe('patients and plans over HTTP', () => {
   );
 
   it.skipIf(!hasSr28)(
-    t('swaps: same group, clearly less absorbable P per g protein, best first'),
+    t('swaps: same group, clearly less absorbable P per g protein, cheeses first, best first'),
     async () => {
       // Besides this test's foods (cheddar 01009, egg 01123, milk 01077, ...), more SR28 dairy and
       // egg foods (P mg / protein g per 100 g) and one fruit of another group, as a second source
@@ -503,17 +503,25 @@ describe('patients and plans over HTTP', () => {
       // whole egg 01123 198/12.56 = 15.76 -> 0.792
       // mozzarella 01026 354/22.17 = 15.97 -> 0.803 > 0.8 (not clearly less); cream cheese 01017 17.4 -> 0.875
       // butter 01001 (0.85 g protein), milk 01077 (3.15 g < 25% of 22.87 g) and apple 09003 (another
-      // group) are not compared
+      // group) are not compared. The two cheeses ("Cheese, cottage, ...") come first, as the same
+      // kind of food as "Cheese, cheddar"; then the rest of the group, least first.
       expect(r.basis).toBe('per-g-protein');
       expect(r.swaps.map((x: { code: string }) => x.code)).toEqual([
-        '01124',
         '01016',
-        '01256',
         '01012',
+        '01124',
+        '01256',
         '01123',
       ]);
       expect(r.swaps.map((x: { shareOfOriginal: number }) => x.shareOfOriginal)).toEqual([
-        0.069, 0.544, 0.666, 0.719, 0.792,
+        0.544, 0.719, 0.069, 0.666, 0.792,
+      ]);
+      expect(r.swaps.map((x: { sameKind: boolean }) => x.sameKind)).toEqual([
+        true,
+        true,
+        false,
+        false,
+        false,
       ]);
       const one = await ctx.inject({ method: 'GET', url: `/api/swaps/${cheddar?.id}?limit=1` });
       expect(one.json().swaps).toHaveLength(1);

@@ -793,7 +793,7 @@ async function showSwaps(c: Contributor): Promise<void> {
                 h(
                   'span',
                   { class: 'muted small' },
-                  ` — ${Math.round(s.shareOfOriginal * 100)} % of the original's absorbable phosphorus ${res.basis === 'per-g-protein' ? 'per g protein' : 'per portion'}`,
+                  ` — ${s.sameKind ? 'same kind of food, ' : ''}${Math.round(s.shareOfOriginal * 100)} % of the original's absorbable phosphorus ${res.basis === 'per-g-protein' ? 'per g protein' : 'per portion'}`,
                 ),
                 ' ',
                 h(
