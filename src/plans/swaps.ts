@@ -81,6 +81,13 @@ export function smallestTypicalFraction(f: AbsorptionFractions): number {
   );
 }
 
+/**
+ * Foods that are no swap for a patient's food whatever their phosphorus: breast milk and foods
+ * for infants (food-table names such as "Milk, human, ..." or "Infant formula, ...": common
+ * practice, no source).
+ */
+const NOT_A_SWAP = /\b(human|infant|babyfood|baby food)\b/;
+
 /** The first word of a food-table name, folded ("Cheese, cottage, ..." -> "cheese"). */
 function kindWord(name: string): string {
   return searchWords(name)[0] ?? '';
@@ -120,6 +127,7 @@ export function rankSwaps(
   const out: SwapCandidate[] = [];
   for (const c of candidates) {
     if (c.id === original.id || c.group !== original.group) continue;
+    if (NOT_A_SWAP.test(searchWords(c.name).join(' '))) continue;
     if (swapBasis(c) !== basis) continue;
     if (basis === 'per-g-protein' && (c.per100g.proteinG ?? 0) < SWAP_MIN_PROTEIN_SHARE * origProt)
       continue;

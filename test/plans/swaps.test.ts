@@ -66,6 +66,26 @@ describe('swaps for foods without protein are compared per portion', () => {
     }
   });
 
+  it('puts the same kind of food first, and never offers breast milk or infant foods', () => {
+    // Invented names in the food-table style; values invented (all under 80% of the original).
+    const milk = drink(10, 'Milk, whole', 20, 250, 'Dairy');
+    const others = [
+      drink(11, 'Yogurt drink, plain', 4, 250, 'Dairy'),
+      drink(12, 'Milk, reduced fat', 12, 250, 'Dairy'),
+      drink(13, 'Milk, human, mature, fluid', 3, 250, 'Dairy'),
+      drink(14, 'Infant formula, milk based', 2, 250, 'Dairy'),
+    ];
+    const res = rankSwaps(milk, others, {
+      fractions: DEFAULT_ABSORPTION_FRACTIONS,
+      maxShare: 0.8,
+      limit: 5,
+    });
+    expect(res.swaps.map((s) => [s.foodId, s.sameKind])).toEqual([
+      [12, true],
+      [11, false],
+    ]);
+  });
+
   it('the SQL prefilter bound uses the smallest typical fraction (phosphorus model defaults)', () => {
     const f = DEFAULT_ABSORPTION_FRACTIONS;
     expect(smallestTypicalFraction(f)).toBe(
