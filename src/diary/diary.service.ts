@@ -76,7 +76,6 @@ interface SharedCache {
   foods: Map<number, Food>;
 }
 const sharedSearches = new WeakMap<object, SharedCache>();
-
 const MAX_SHARED = 5000;
 /** Foods kept for audits (SR28 has 8,789; a bound for larger tables, not a tuned size). */
 const MAX_SHARED_FOODS = 20_000;

@@ -4,7 +4,7 @@
  * food: coverage of the words, the main word in the food's head, a plain generic food before a
  * branded or special one unless a brand is named, and the usual state (cooked meat, raw fruit).
  */
-import { foldText } from '../foods/text.js';
+import { foldText, isAscii } from '../foods/text.js';
 
 /** What the scorer needs of a food. */
 export interface ScorableFood {
@@ -526,14 +526,11 @@ function stemUncached(word: string): string {
   return word;
 }
 
-// eslint-disable-next-line no-control-regex -- the whole 7-bit range, control characters too
-const ASCII = /^[\x00-\x7f]*$/;
-
 function words(text: string): string[] {
   const folded = foldText(text);
   // In ASCII the letters and digits are exactly a-z and 0-9 once folded (lower-cased).
   return (
-    (ASCII.test(folded) ? folded.match(/[a-z0-9%'-]+/g) : folded.match(/[\p{L}\p{N}%'-]+/gu)) ?? []
+    (isAscii(folded) ? folded.match(/[a-z0-9%'-]+/g) : folded.match(/[\p{L}\p{N}%'-]+/gu)) ?? []
   );
 }
 
@@ -987,8 +984,8 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
 
   if (has.flavour && !said(/flavou?r/)) score -= 4;
   if (has.withoutAddedVitamin) score -= 3;
-  // "without X" marks the special variant ("Butter, without salt"), except salt in cooked foods below.
-  // Vitamin C is an optional addition to juices: "without added ascorbic acid" is the plain juice.
+  // "without X" marks the special variant ("Butter, without salt"), except salt in cooked foods below
+  // (has.without ignores "without added ascorbic acid": see nameTests).
   if (has.withAddedAscorbic && !said(/vitamin c|ascorbic/)) score -= 1.5;
   const saltOnly = has.saltOnlyWithout;
   if (

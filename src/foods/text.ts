@@ -1,6 +1,11 @@
 // eslint-disable-next-line no-control-regex -- the whole 7-bit range, control characters too
 const ASCII = /^[\x00-\x7f]*$/;
 
+/** Plain 7-bit text: no marks or compatibility forms, so lower-casing is the whole fold. */
+export function isAscii(text: string): boolean {
+  return ASCII.test(text);
+}
+
 /** Lower-cases and strips diacritics the way the FTS5 tokenizer does (remove_diacritics 2). */
 export function foldText(text: string): string {
   // Plain ASCII has no marks and no compatibility forms: lower-casing is the whole fold.

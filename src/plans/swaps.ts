@@ -1,6 +1,6 @@
 import type { Food } from '../foods/food.js';
 import type { AbsorptionFractions } from '../phosphorus/absorption.js';
-import { searchWords } from '../foods/text.js';
+import { nameWords } from '../foods/text.js';
 import { profileFood } from '../phosphorus/profile.js';
 
 /** Below this protein (g/100 g) a food is compared per portion instead (common practice, no source). */
@@ -90,7 +90,7 @@ const NOT_A_SWAP = /\b(human|infant|babyfood|baby food)\b/;
 
 /** The first word of a food-table name, folded ("Cheese, cottage, ..." -> "cheese"). */
 function kindWord(name: string): string {
-  return searchWords(name)[0] ?? '';
+  return nameWords(name)[0] ?? '';
 }
 
 /**
@@ -127,7 +127,7 @@ export function rankSwaps(
   const out: SwapCandidate[] = [];
   for (const c of candidates) {
     if (c.id === original.id || c.group !== original.group) continue;
-    if (NOT_A_SWAP.test(searchWords(c.name).join(' '))) continue;
+    if (NOT_A_SWAP.test(nameWords(c.name).join(' '))) continue;
     if (swapBasis(c) !== basis) continue;
     if (basis === 'per-g-protein' && (c.per100g.proteinG ?? 0) < SWAP_MIN_PROTEIN_SHARE * origProt)
       continue;
