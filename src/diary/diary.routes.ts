@@ -108,7 +108,7 @@ export const diaryRoutes: FastifyPluginAsync<{ db: Db; clock: Clock }> = async (
     throwFileSizeLimit: false,
     limits: { fileSize: DIARY_LIMITS.maxBytes, files: 1, fields: 10, fieldSize: 1000 },
   });
-  const service = new DiaryAuditService(opts.db, opts.clock);
+  const service = new DiaryAuditService(opts.db, opts.clock, { longRunning: true });
   const patients = new PatientService(opts.db.kysely, opts.clock);
   const api = app.withTypeProvider<ZodTypeProvider>();
   const patientOf = async (_db: Db, req: FastifyRequest) => {

@@ -2,9 +2,10 @@ import { sql } from 'kysely';
 import type { Clock } from '../clock.js';
 import type { Db } from '../db/database.js';
 import { AppError, BadRequestError, NotFoundError } from '../errors.js';
-import type { Food } from '../foods/food.js';
+import type { Food, FoodKind } from '../foods/food.js';
 import { FoodRepository } from '../foods/foods.repository.js';
 import { FoodService } from '../foods/foods.service.js';
+import { FoodNameIndex, type NameRow } from '../foods/name-index.js';
 import { PatientService } from '../patients/patients.service.js';
 import { settingsSource } from '../plans/plan-settings-source.js';
 import { SwapService } from '../plans/swaps.service.js';
@@ -17,7 +18,7 @@ import {
   type DiarySwap,
   type EntryMatchInput,
 } from './findings.js';
-import { memoryKey } from './matcher.js';
+import { memoryKey, prepareForScoring } from './matcher.js';
 import { DiaryMatcher, type FoodFinder } from './matching.service.js';
 import {
   decodeDiaryBytes,
@@ -74,26 +75,119 @@ interface SharedCache {
   swaps: Map<string, Promise<DiarySwap | null>>;
   /** Foods by id, as search hits and swap candidates load them. */
   foods: Map<number, Food>;
+  /** Each kind's names in memory, once built (null when too many or not buildable). */
+  names: Map<FoodKind, NameSlot>;
+}
+
+interface NameSlot {
+  /** Set when the build has finished: the index, or null (the SQL queries answer). */
+  index: FoodNameIndex | null | undefined;
+  building: Promise<FoodNameIndex | null>;
 }
 const sharedSearches = new WeakMap<object, SharedCache>();
 const MAX_SHARED = 5000;
 /** Foods kept for audits (SR28 has 8,789; a bound for larger tables, not a tuned size). */
 const MAX_SHARED_FOODS = 20_000;
+/**
+ * Foods of one kind held as a name index (common practice, no source: a bound on memory, about
+ * 20 MB at this size; a million branded foods stay with the SQL indexes).
+ */
+const MAX_INDEXED_FOODS = 50_000;
+
+/**
+ * The start-up warm-up's diary: invented demo lines (no patient's), one of each kind of line the
+ * reader and matcher meet (headings, quantities in words, units, household measures, a brand).
+ */
+const WARM_UP_DIARY = `Monday
+breakfast: 2 slices of whole wheat bread with butter
+1 cup of 2% milk
+lunch: chicken breast, roasted, 120 g
+half a cup of white rice
+snack: a can (355 ml) of cola
+dinner: dos huevos fritos
+processed cheese slice
+Tuesday
+breakfast - 1 bowl of oatmeal
+lunch: ham sandwich
+dinner: 150 g salmon, baked
+`;
+
+/** Resolves in a later event-loop turn: long preparation lets requests in between its steps. */
+const nextTurn = () => new Promise<void>((resolve) => setImmediate(resolve));
 
 /**
  * The food repository as audits see it: foods come from the shared cache when an earlier search
- * or swap loaded them under the same tables, so the scorer's per-food work is done once.
+ * or swap loaded them under the same tables, so the scorer's per-food work is done once; the
+ * search's candidate queries are answered from the name index when there is one (it gives the
+ * same rows in the same order as SQLite, see foods/name-index.ts).
  */
 class SharedFoodRepository extends FoodRepository {
+  /**
+   * `buildInBackground`: a missing name index is built in the background when a search finds
+   * none (a long-running server); a one-shot process (the CLI) searches with SQL instead, as
+   * building costs more than one diary's searches.
+   */
   constructor(
     db: Db,
-    private readonly cache: () => Promise<SharedCache>,
+    private readonly shared: SharedCache,
+    private readonly buildInBackground: boolean,
   ) {
     super(db.kysely);
   }
 
+  /** The name index of one kind under the current tables, built now if need be. */
+  async names(kind: FoodKind): Promise<FoodNameIndex | null> {
+    return this.slot(kind).building;
+  }
+
+  /** The index when it is built; otherwise null (and, if allowed, starts building it). */
+  private readyNames(kind: FoodKind): FoodNameIndex | null {
+    const slot = this.shared.names.get(kind) ?? (this.buildInBackground ? this.slot(kind) : null);
+    return slot?.index ?? null;
+  }
+
+  private slot(kind: FoodKind): NameSlot {
+    let slot = this.shared.names.get(kind);
+    if (!slot) {
+      const made: NameSlot = {
+        index: undefined,
+        // A later turn: the search that asked goes on with SQL meanwhile.
+        building: nextTurn()
+          .then(() => super.loadNameIndexSource(kind, MAX_INDEXED_FOODS))
+          .then(
+            (source) => (source ? new FoodNameIndex(source) : null),
+            () => null, // e.g. no temporary tables on this connection: SQL still answers
+          )
+          .then((index) => (made.index = index)),
+      };
+      slot = made;
+      this.shared.names.set(kind, slot);
+    }
+    return slot;
+  }
+
+  override async nameStartCandidates(
+    opts: Parameters<FoodRepository['nameStartCandidates']>[0],
+  ): Promise<NameRow[]> {
+    if (!opts.source && !opts.group) {
+      const index = this.readyNames(opts.kind);
+      if (index) return index.nameStart(opts.prefix, opts.limit);
+    }
+    return super.nameStartCandidates(opts);
+  }
+
+  override async wordCandidates(
+    opts: Parameters<FoodRepository['wordCandidates']>[0],
+  ): Promise<NameRow[]> {
+    if (!opts.source && !opts.group) {
+      const found = this.readyNames(opts.kind)?.wordCandidates(opts.words, opts.limit);
+      if (found) return found;
+    }
+    return super.wordCandidates(opts);
+  }
+
   override async getFoods(ids: readonly number[]): Promise<Map<number, Food>> {
-    const { foods } = await this.cache();
+    const { foods } = this.shared;
     const missing = ids.filter((id) => !foods.has(id));
     if (missing.length > 0) {
       if (foods.size + missing.length > MAX_SHARED_FOODS) foods.clear();
@@ -108,26 +202,73 @@ class SharedFoodRepository extends FoodRepository {
   }
 }
 
+/** What one audit works with: the shared cache of the tables as they were when it started. */
+interface AuditTools {
+  foodRepo: SharedFoodRepository;
+  foodService: FoodService;
+  swaps: SwapService;
+  /** Searches and swaps remembered: the shared ones, or the audit's own (the warm-up). */
+  results: SharedCache['results'];
+  swapMemo: SharedCache['swaps'];
+}
+
 export class DiaryAuditService {
   private readonly repo: DiaryRepository;
   private readonly foodRepo: FoodRepository;
-  private readonly foodService: FoodService;
   private readonly patients: PatientService;
-  private readonly swaps: SwapService;
   private readonly settings: ReturnType<typeof settingsSource>;
+  private readonly longRunning: boolean;
 
+  /**
+   * `longRunning`: a server, which keeps name indexes for its food tables (built by `prepare` at
+   * start-up, or in the background after an import); otherwise (the CLI) SQL answers until some
+   * caller prepares.
+   */
   constructor(
     private readonly db: Db,
     private readonly clock: Clock,
+    opts: { longRunning?: boolean } = {},
   ) {
     this.repo = new DiaryRepository(db.kysely);
-    this.foodRepo = new SharedFoodRepository(db, () => this.shared());
-    this.foodService = new FoodService(this.foodRepo);
+    this.foodRepo = new FoodRepository(db.kysely);
     this.patients = new PatientService(db.kysely, clock);
     this.settings = settingsSource(db);
-    this.swaps = new SwapService(db.kysely, this.foodRepo, this.settings);
+    this.longRunning = opts.longRunning ?? false;
   }
 
+  /**
+   * Builds what audits keep in memory for the current tables: the name indexes, and every generic
+   * food loaded with its scoring features (when they fit the shared cache). Run at start-up and
+   * after an import; an audit that comes first builds what it needs itself. Yields between steps.
+   */
+  async prepare(opts: { signal?: AbortSignal } = {}): Promise<{ indexed: number; foods: number }> {
+    const stopped = () => opts.signal?.aborted === true;
+    if (stopped()) return { indexed: 0, foods: 0 };
+    const { foodRepo } = await this.tools();
+    const [generic, branded] = await Promise.all([
+      foodRepo.names('generic'),
+      foodRepo.names('branded'),
+    ]);
+    let foods = 0;
+    const ids = generic?.ids() ?? [];
+    if (ids.length <= MAX_SHARED_FOODS) {
+      for (let i = 0; i < ids.length; i += 500) {
+        await nextTurn();
+        if (stopped()) return { indexed: 0, foods };
+        const loaded = await foodRepo.getFoods(ids.slice(i, i + 500));
+        for (const f of loaded.values()) prepareForScoring(f);
+        foods += loaded.size;
+      }
+    }
+    // A short invented diary audited with its own memo (nothing shared is remembered from it):
+    // the first real audit then runs compiled code, not the interpreter.
+    await nextTurn();
+    const warm = readDiary(WARM_UP_DIARY);
+    if (warm.ok && !stopped()) await this.compute(warm.value.entries, {}, null, [], [], true);
+    return { indexed: (generic?.size ?? 0) + (branded?.size ?? 0), foods };
+  }
+
+  /** The shared cache of the tables as they are now (dropped whole when they have changed). */
   private async shared(): Promise<SharedCache> {
     const s = await sql<{
       stamp: string;
@@ -136,28 +277,45 @@ export class DiaryAuditService {
     );
     const stamp = s.rows[0]?.stamp ?? '';
     let shared = sharedSearches.get(this.db.sqlite);
-    if (!shared || shared.stamp !== stamp || shared.results.size > MAX_SHARED) {
-      shared = { stamp, results: new Map(), swaps: new Map(), foods: new Map() };
+    if (!shared || shared.stamp !== stamp) {
+      shared = { stamp, results: new Map(), swaps: new Map(), foods: new Map(), names: new Map() };
       sharedSearches.set(this.db.sqlite, shared);
+    } else if (shared.results.size > MAX_SHARED) {
+      // Bounded: the remembered searches and swaps start again; foods and names stay.
+      shared.results = new Map();
+      shared.swaps = new Map();
     }
     return shared;
   }
 
-  private async finder(): Promise<FoodFinder> {
-    const results = (await this.shared()).results;
+  /** One audit's tools over one look at the shared cache (one stamp query per audit). */
+  private async tools(scratch = false): Promise<AuditTools> {
+    const shared = await this.shared();
+    const foodRepo = new SharedFoodRepository(this.db, shared, this.longRunning);
+    return {
+      foodRepo,
+      foodService: new FoodService(foodRepo),
+      swaps: new SwapService(this.db.kysely, foodRepo, this.settings),
+      results: scratch ? new Map() : shared.results,
+      swapMemo: scratch ? new Map() : shared.swaps,
+    };
+  }
+
+  private finder(tools: AuditTools): FoodFinder {
+    const { results, foodService, foodRepo } = tools;
     return {
       search: (q) => {
         const key = `${q.limit}|${q.q}`;
         let hit = results.get(key);
         if (!hit) {
-          hit = this.foodService.search(q);
+          hit = foodService.search(q);
           results.set(key, hit);
           hit.catch(() => results.delete(key));
         }
         return hit;
       },
-      findIdsByCode: (code) => this.foodRepo.findIdsByCode(code),
-      getFoods: (ids) => this.foodRepo.getFoods(ids),
+      findIdsByCode: (code) => foodRepo.findIdsByCode(code),
+      getFoods: (ids) => foodRepo.getFoods(ids),
     };
   }
 
@@ -173,12 +331,13 @@ export class DiaryAuditService {
   private async matchAll(
     entries: readonly DiaryEntryInput[],
     overrides: Readonly<Record<string, number>>,
+    tools: AuditTools,
   ): Promise<Map<number, EntryMatchInput>> {
     // One query for the clinic's remembered matches of every phrase in the diary.
     const remembered = await this.repo.lookupMemory(CLINIC_KEY, [
       ...new Set(entries.map((e) => memoryKey(e.foodText)).filter(Boolean)),
     ]);
-    const matcher = new DiaryMatcher(await this.finder(), {
+    const matcher = new DiaryMatcher(this.finder(tools), {
       lookup: (keys) =>
         Promise.resolve(
           new Map(
@@ -187,7 +346,7 @@ export class DiaryAuditService {
         ),
     });
     const chosenIds = Object.values(overrides);
-    const chosen = chosenIds.length > 0 ? await this.foodRepo.getFoods(chosenIds) : new Map();
+    const chosen = chosenIds.length > 0 ? await tools.foodRepo.getFoods(chosenIds) : new Map();
     const out = new Map<number, EntryMatchInput>();
     for (const e of entries) {
       const o = overrides[String(e.line)];
@@ -210,14 +369,15 @@ export class DiaryAuditService {
   private async swapsFor(
     report: ReturnType<typeof buildDiaryReport>,
     settings: SummarySettings,
+    tools: AuditTools,
   ): Promise<DiaryReport> {
-    const cache = (await this.shared()).swaps;
+    const cache = tools.swapMemo;
     const settingsKey = JSON.stringify(settings);
     const swapOf = (foodId: number): Promise<DiarySwap | null> => {
       const key = `${foodId}|${settingsKey}`;
       let p = cache.get(key);
       if (!p) {
-        p = this.swaps.findSwaps(foodId, SWAPS_PER_FOOD).then(
+        p = tools.swaps.findSwaps(foodId, SWAPS_PER_FOOD).then(
           (r) => ({
             foodId: r.foodId,
             name: r.name,
@@ -280,10 +440,12 @@ export class DiaryAuditService {
     patientId: number | null,
     skipped: readonly DiaryIssue[],
     notes: readonly DiaryIssue[],
+    scratch = false,
   ): Promise<DiaryReport> {
     const targets = patientId === null ? unsetTargets() : await this.patients.targets(patientId);
+    const tools = await this.tools(scratch);
     const [matches, settings] = await Promise.all([
-      this.matchAll(entries, overrides),
+      this.matchAll(entries, overrides, tools),
       this.summarySettings(),
     ]);
     const built = buildDiaryReport({
@@ -295,7 +457,7 @@ export class DiaryAuditService {
       skipped,
       notes,
     });
-    return this.swapsFor(built, settings);
+    return this.swapsFor(built, settings, tools);
   }
 
   /** Reads, matches and reports a diary (nothing is saved). Bad files throw clear AppErrors. */

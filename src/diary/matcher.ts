@@ -840,6 +840,11 @@ function features(food: ScorableFood): NameFeatures {
   return f;
 }
 
+/** Works out a food's name features ahead of its first scoring (start-up preparation). */
+export function prepareForScoring(food: ScorableFood): void {
+  features(food);
+}
+
 /**
  * Scores one food for a prepared query (higher is better): coverage of the query words dominates;
  * then the head of the name, fewer unrelated words, the plain generic food, the usual state.

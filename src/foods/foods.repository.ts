@@ -2,6 +2,8 @@ import { sql, type Kysely, type Selectable } from 'kysely';
 import type { DB } from '../db/schema.js';
 import type { FoodTable } from '../db/food.tables.js';
 import type { Food, FoodKind, Portion } from './food.js';
+import type { NameIndexSource, NameRow } from './name-index.js';
+import { ftsTierQueries, isAscii } from './text.js';
 
 type FoodRow = Selectable<FoodTable> & { source_format: string; source_release: string };
 
@@ -170,23 +172,24 @@ export class FoodRepository {
   }
 
   /**
-   * FTS candidates of one kind, in index (rowid) order without bm25: ranking every match would
-   * cost time proportional to the matches (a million foods for "c"); `limit` bounds the work.
-   * `match` is an FTS5 expression over name/alt_names built from quoted words.
+   * FTS candidates of one kind: every word is the prefix of a word of the name or of an alternate
+   * name, in rowid order without bm25 (ranking every match would cost time proportional to the
+   * matches: a million foods for "c"); `limit` bounds the work.
    */
-  async ftsCandidates(opts: {
-    match: string;
+  async wordCandidates(opts: {
+    words: readonly string[];
     kind: FoodKind;
     limit: number;
     source?: string | undefined;
     group?: string | undefined;
-  }) {
-    const match = `kind : ${opts.kind} AND (${opts.match})`;
+  }): Promise<NameRow[]> {
+    const match = `kind : ${opts.kind} AND (${ftsTierQueries(opts.words).any})`;
     let q = this.db
       .selectFrom('food_fts')
       .innerJoin('food', 'food.id', 'food_fts.rowid')
       .select(['food.id', 'food.name', 'food.alt_names', 'food.kind', 'food.source_id'])
       .where(sql<boolean>`food_fts match ${match}`)
+      .orderBy(sql`food_fts.rowid`)
       .limit(opts.limit);
     if (opts.group) q = q.where('food.food_group', '=', opts.group);
     if (opts.source) {
@@ -202,7 +205,7 @@ export class FoodRepository {
 
   /**
    * Foods of one kind whose lower-cased main name starts with `prefix` (a range scan on the
-   * (kind, lower(name)) index), for the first ranking tier.
+   * (kind, lower(name)) index, in its order), for the first ranking tier.
    */
   async nameStartCandidates(opts: {
     prefix: string;
@@ -210,7 +213,7 @@ export class FoodRepository {
     limit: number;
     source?: string | undefined;
     group?: string | undefined;
-  }) {
+  }): Promise<NameRow[]> {
     // U+10FFFF sorts after every character (BINARY collation compares UTF-8 bytes).
     const upper = `${opts.prefix}\u{10FFFF}`;
     let q = this.db
@@ -219,6 +222,8 @@ export class FoodRepository {
       .where('food.kind', '=', opts.kind)
       .where(sql<boolean>`lower(food.name) >= ${opts.prefix}`)
       .where(sql<boolean>`lower(food.name) < ${upper}`)
+      .orderBy(sql`lower(food.name)`)
+      .orderBy('food.id')
       .limit(opts.limit);
     if (opts.group) q = q.where('food.food_group', '=', opts.group);
     if (opts.source) {
@@ -230,6 +235,106 @@ export class FoodRepository {
       );
     }
     return q.execute();
+  }
+
+  /**
+   * What `FoodNameIndex` is built from: every food of the kind with SQLite's own `lower(name)`
+   * in index order, and every FTS document of the kind with its tokens. Plain-ASCII text is
+   * split here (FTS5's unicode61 tokenizer keeps exactly the runs of ASCII letters and digits,
+   * lower-cased); any other text is tokenized by FTS5 itself, in a temporary table with the same
+   * tokenizer, so the tokens are SQLite's and not a re-implementation of them. Null when the kind
+   * has more than `max` foods.
+   */
+  async loadNameIndexSource(kind: FoodKind, max = Infinity): Promise<NameIndexSource | null> {
+    if (Number.isFinite(max)) {
+      // Counted on the (kind, lower(name)) index, stopping one past the bound.
+      const over = await sql<{
+        n: number;
+      }>`select count(*) as n from (select 1 from food where kind = ${kind} limit ${max + 1})`.execute(
+        this.db,
+      );
+      if ((over.rows[0]?.n ?? 0) > max) return null;
+    }
+    const byName = (
+      await this.db
+        .selectFrom('food')
+        .select([
+          'food.id',
+          'food.name',
+          'food.alt_names',
+          'food.kind',
+          'food.source_id',
+          sql<string>`lower(food.name)`.as('name_key'),
+        ])
+        .where('food.kind', '=', kind)
+        .orderBy(sql`lower(food.name)`)
+        .orderBy('food.id')
+        .execute()
+    ).map(({ name_key, ...row }) => ({ row, key: name_key }));
+    const rowById = new Map<number, NameRow>(byName.map((r) => [r.row.id, r.row]));
+    const docRows = await this.db
+      .selectFrom('food_fts')
+      .innerJoin('food', 'food.id', 'food_fts.rowid')
+      .select([
+        'food.id',
+        'food.name',
+        'food.alt_names',
+        'food.kind',
+        'food.source_id',
+        sql<string>`coalesce(food_fts.name, '') || ' ' || coalesce(food_fts.alt_names, '')`.as(
+          'indexed',
+        ),
+      ])
+      .where(sql<boolean>`food_fts match ${`kind : ${kind}`}`)
+      .orderBy(sql`food_fts.rowid`)
+      .execute();
+    const other: { id: number; text: string }[] = [];
+    const docs = docRows.map(({ indexed, ...r }) => {
+      const row = rowById.get(r.id) ?? r;
+      if (isAscii(indexed))
+        return { row, tokens: [...new Set(indexed.toLowerCase().match(/[a-z0-9]+/g))] };
+      other.push({ id: r.id, text: indexed });
+      return { row, tokens: [] as string[] };
+    });
+    if (other.length > 0) {
+      const tokens = await this.ftsTokens(other);
+      for (const d of docs) {
+        const t = tokens.get(d.row.id);
+        if (t) d.tokens = t;
+      }
+    }
+    return { byName, docs };
+  }
+
+  /** FTS5's own tokens of each text (unicode61, remove_diacritics 2, as food_fts), distinct. */
+  private async ftsTokens(texts: readonly { id: number; text: string }[]) {
+    return this.db.connection().execute(async (conn) => {
+      await sql`create virtual table temp.name_tokens using fts5(t, tokenize = 'unicode61 remove_diacritics 2')`.execute(
+        conn,
+      );
+      try {
+        await sql`create virtual table temp.name_tokens_terms using fts5vocab(temp, name_tokens, 'instance')`.execute(
+          conn,
+        );
+        await sql`insert into temp.name_tokens (rowid, t) select value ->> '$[0]', value ->> '$[1]' from json_each(${JSON.stringify(texts.map((t) => [t.id, t.text]))})`.execute(
+          conn,
+        );
+        const rows = await sql<{
+          term: string;
+          doc: number;
+        }>`select term, doc from temp.name_tokens_terms`.execute(conn);
+        const out = new Map<number, string[]>();
+        for (const r of rows.rows) {
+          const list = out.get(r.doc) ?? [];
+          if (!list.includes(r.term)) list.push(r.term);
+          out.set(r.doc, list);
+        }
+        return out;
+      } finally {
+        await sql`drop table if exists temp.name_tokens_terms`.execute(conn);
+        await sql`drop table if exists temp.name_tokens`.execute(conn);
+      }
+    });
   }
 
   async listSources() {

@@ -1,7 +1,7 @@
 import type { Food, FoodSearchQuery } from './food.js';
 import type { FoodRepository } from './foods.repository.js';
-import { rankCandidates, tierOf, type RankCandidate } from './search.js';
-import { ftsTierQueries, searchWords } from './text.js';
+import { rankByWords, tierOfWords, type RankCandidate } from './search.js';
+import { searchWords } from './text.js';
 
 /**
  * How many candidates of each kind and tier the ranking looks at: bounded work on a million
@@ -15,11 +15,19 @@ const CANDIDATES = { generic: 400, branded: 200 } as const;
  */
 const BRANDED_FTS_CANDIDATES = 60;
 
+/** Words of a candidate's main and alternate names, kept per row object (index rows persist). */
+const rowWords = new WeakMap<object, readonly string[]>();
+
 /** Every query word starts a word of the name or of an alternate name (as FTS prefix matching). */
-function hasAllWords(words: readonly string[], name: string, altNamesJson: string): boolean {
+function hasAllWords(words: readonly string[], row: { name: string; alt_names: string }): boolean {
   if (words.length === 1) return true; // the range scan matched the first word already
-  const have = searchWords(`${name} ${altNamesJson}`);
-  return words.every((w) => have.some((h) => h.startsWith(w)));
+  let have = rowWords.get(row);
+  if (have === undefined) {
+    have = searchWords(`${row.name} ${row.alt_names}`);
+    rowWords.set(row, have);
+  }
+  const all = have;
+  return words.every((w) => all.some((h) => h.startsWith(w)));
 }
 
 export class FoodService {
@@ -38,14 +46,14 @@ export class FoodService {
     }
     const words = searchWords(text);
     if (words.length > 0) {
-      const tiers = ftsTierQueries(words);
       const candidates: RankCandidate[] = [];
+      let ranked: RankCandidate[] = [];
       for (const kind of ['generic', 'branded'] as const) {
         const limit = CANDIDATES[kind];
         const ftsLimit = kind === 'branded' ? Math.max(BRANDED_FTS_CANDIDATES, query.limit) : limit;
-        const fetch = (match: string) =>
-          this.repo.ftsCandidates({
-            match,
+        const fetch = () =>
+          this.repo.wordCandidates({
+            words,
             kind,
             limit: ftsLimit,
             source: query.source,
@@ -60,13 +68,14 @@ export class FoodService {
           source: query.source,
           group: query.group,
         });
-        const first = starts.filter((c) => hasAllWords(words, c.name, c.alt_names));
+        const first = starts.filter((c) => hasAllWords(words, c));
         // When the range scan ended below its limit, every main name starting with the first
         // word is in hand; if enough of them are first-tier to fill the page, FTS matches (lower
         // tiers only) cannot reach it, so the FTS query is skipped.
         const pageFull =
-          starts.length < limit && first.filter((c) => tierOf(text, c) === 0).length >= query.limit;
-        const rest = first.length >= limit || pageFull ? [] : await fetch(tiers.any);
+          starts.length < limit &&
+          first.filter((c) => tierOfWords(words, c) === 0).length >= query.limit;
+        const rest = first.length >= limit || pageFull ? [] : await fetch();
         const seen = new Set<number>();
         for (const c of [...first, ...rest]) {
           if (seen.has(c.id)) continue;
@@ -75,13 +84,13 @@ export class FoodService {
         }
         // Branded foods rank below generic ones of the same tier: once generic foods fill the
         // page with main-name matches, no branded food can make it.
+        ranked = rankByWords(words, candidates);
         if (kind === 'generic') {
-          const ranked = rankCandidates(text, candidates);
-          const topTier = ranked.slice(0, query.limit).every((c) => tierOf(text, c) === 0);
+          const topTier = ranked.slice(0, query.limit).every((c) => tierOfWords(words, c) === 0);
           if (ranked.length >= query.limit && topTier) break;
         }
       }
-      for (const c of rankCandidates(text, candidates)) ids.push(c.id);
+      for (const c of ranked) ids.push(c.id);
     }
     const top = [...new Set(ids)].slice(0, query.limit);
     const foods = await this.repo.getFoods(top);

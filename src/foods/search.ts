@@ -17,7 +17,14 @@ export function rankCandidates<T extends RankCandidate>(
   query: string,
   candidates: readonly T[],
 ): T[] {
-  const words = searchWords(query);
+  return rankByWords(searchWords(query), candidates);
+}
+
+/** `rankCandidates` for a query already split into search words. */
+export function rankByWords<T extends RankCandidate>(
+  words: readonly string[],
+  candidates: readonly T[],
+): T[] {
   const scored = candidates.map((c) => {
     const tier = tierOfWords(words, c);
     return { c, tier, kind: c.kind === 'generic' ? 0 : 1, len: c.name.length };
@@ -36,7 +43,8 @@ export function tierOf(query: string, c: { name: string }): 0 | 1 | 2 {
   return tierOfWords(searchWords(query), c);
 }
 
-function tierOfWords(words: readonly string[], c: { name: string }): 0 | 1 | 2 {
+/** `tierOf` for a query already split into search words. */
+export function tierOfWords(words: readonly string[], c: { name: string }): 0 | 1 | 2 {
   const have = nameWords(c.name);
   const first = words[0] ?? '';
   const startsWith = have[0]?.startsWith(first) ?? false;

@@ -12,6 +12,7 @@ import { importDefaultFoodTable } from '../../data-import/first-start.js';
 import { seedDemoData } from '../plans/demo-seed.js';
 import { rescanOutdatedScans } from '../additives/additives.service.js';
 import { preloadFonts } from '../handouts/pdf/fonts.js';
+import { DiaryAuditService } from '../diary/diary.service.js';
 import { buildApp } from './app.js';
 
 export interface ServeIo {
@@ -41,7 +42,16 @@ export async function serve(config: Config, clock: Clock, io: ServeIo, transport
   const address = await app.listen({ host: config.host, port: config.port });
   io.stdout.write(`phosledger listening on ${address}\n`);
   await afterListen(app, address, io.stdout);
+  // Diary audits' name indexes and scoring features, built while the first requests come in.
+  const stopPreparing = new AbortController();
+  const preparing = new DiaryAuditService(db, clock, { longRunning: true })
+    .prepare({ signal: stopPreparing.signal })
+    .catch((err: unknown) => {
+      io.stderr.write(`diary audit preparation failed (audits search with SQL): ${String(err)}\n`);
+    });
   const close = async () => {
+    stopPreparing.abort();
+    await preparing;
     await app.close();
     await db.close();
   };

@@ -51,12 +51,24 @@ export const diaryBench: BenchSection = {
       return;
     }
     const db = await openMemoryDb();
-    insertFoods(db, [...loadAllSr28Foods().values()]);
-    const service = new DiaryAuditService(db, fixedClock('2026-03-05T09:30:00Z'));
-
-    // 60 entries, 7 days: cold (first audit on this database), then warm (shared search cache).
-    const week = inventedDiary(60);
+    const foods = [...loadAllSr28Foods().values()];
+    insertFoods(db, foods);
+    // As the server runs it: prepared at start-up (name indexes, foods, scoring features, a
+    // warm-up audit of an invented diary that remembers nothing), then audits.
+    const service = new DiaryAuditService(db, fixedClock('2026-03-05T09:30:00Z'), {
+      longRunning: true,
+    });
     let t = performance.now();
+    const prepared = await service.prepare();
+    const prepareMs = performance.now() - t;
+    console.log(
+      `   start-up preparation (once per food-table state, in the background after listen): ` +
+        `${fmt(prepareMs)} ms (${fmt(prepared.indexed)} names indexed, ${fmt(prepared.foods)} foods loaded)`,
+    );
+
+    // 60 entries, 7 days: first audit after preparation, then warm (shared search cache).
+    const week = inventedDiary(60);
+    t = performance.now();
     const first = await service.run({ text: week });
     const coldMs = performance.now() - t;
     const warm: number[] = [];
@@ -65,26 +77,52 @@ export const diaryBench: BenchSection = {
       await service.run({ text: week });
       warm.push(performance.now() - t);
     }
-    // A second, different week (other lines of the set) on the warm server: new phrases.
-    const other = inventedDiary(60, 60);
-    t = performance.now();
-    await service.run({ text: other });
-    const otherMs = performance.now() - t;
+    // Three more weeks, each of 60 lines the server has not seen (other lines of the set).
+    const fresh: number[] = [];
+    for (const offset of [60, 120, 180]) {
+      t = performance.now();
+      await service.run({ text: inventedDiary(60, offset) });
+      fresh.push(performance.now() - t);
+    }
     t = performance.now();
     for (let i = 0; i < 100; i++) baseline(week);
     const baseMs = (performance.now() - t) / 100;
     const med = percentile(warm, 50);
+    const worst = Math.max(coldMs, ...fresh);
     console.log(
       `   60-entry week (${first.report.entries.length} entries, ${first.report.days.length} days): ` +
-        `cold ${fmt(coldMs)} ms, warm median ${fmt(med, 1)} ms (p90 ${fmt(percentile(warm, 90), 1)} ms), ` +
-        `another week with new phrases ${fmt(otherMs)} ms; goal < 200 ms: ${med < 200 ? 'met (warm)' : 'NOT met'}` +
-        `${coldMs < 200 ? ', met cold too' : ', not met cold'}`,
+        `first audit ${fmt(coldMs)} ms, the same week again median ${fmt(med, 1)} ms (p90 ${fmt(percentile(warm, 90), 1)} ms), ` +
+        `weeks of new phrases ${fresh.map((x) => fmt(x)).join(' / ')} ms; ` +
+        `goal < 200 ms: ${worst < 200 ? 'met by every week' : med < 200 ? 'met for repeated weeks only' : 'NOT met'}`,
     );
     console.log(
       `   bare baseline pass over the same lines ${fmt(baseMs, 3)} ms (warm audit is ${fmt(med / baseMs)}x)`,
     );
+    {
+      // Without preparation, as the one-shot CLI runs (SQL searches, foods loaded as found),
+      // on a second copy of the tables; the code is already compiled by the runs above.
+      const plainDb = await openMemoryDb();
+      insertFoods(plainDb, foods);
+      const plain = new DiaryAuditService(plainDb, fixedClock('2026-03-05T09:30:00Z'));
+      t = performance.now();
+      await plain.run({ text: week });
+      const plainFirst = performance.now() - t;
+      t = performance.now();
+      await plain.run({ text: inventedDiary(60, 60) });
+      console.log(
+        `   without preparation (as the CLI): first week ${fmt(plainFirst)} ms, a week of new phrases ${fmt(performance.now() - t)} ms`,
+      );
+      await plainDb.close();
+    }
 
-    // Bulk: 5,000 entries (the labelled lines repeated: a diary repeats its foods).
+    // Bulk: 5,000 entries (the labelled lines repeated: a diary repeats its foods), on a third
+    // copy of the tables prepared as the server does, so no phrase has been searched before.
+    const bulkDb = await openMemoryDb();
+    insertFoods(bulkDb, foods);
+    const bulkService = new DiaryAuditService(bulkDb, fixedClock('2026-03-05T09:30:00Z'), {
+      longRunning: true,
+    });
+    await bulkService.prepare();
     const bulk = inventedDiary(5000);
     const lineCount = bulk.split('\n').length - 1;
     t = performance.now();
@@ -92,11 +130,11 @@ export const diaryBench: BenchSection = {
     const readMs = performance.now() - t;
     if (!read.ok) throw new Error('bulk diary unreadable');
     t = performance.now();
-    const bulkRun = await service.run({ text: bulk });
+    const bulkRun = await bulkService.run({ text: bulk });
     const bulkMs = performance.now() - t;
     // Again, now that every phrase of the set has been searched once (a clinic's usual case).
     t = performance.now();
-    await service.run({ text: bulk });
+    await bulkService.run({ text: bulk });
     const bulkWarmMs = performance.now() - t;
     t = performance.now();
     baseline(bulk);
@@ -117,6 +155,7 @@ export const diaryBench: BenchSection = {
       `   matcher top-1 accuracy ${acc.correct}/${acc.total} = ${fmt(acc.accuracy * 100, 1)}% ` +
         `(goal >= 85%: ${acc.accuracy >= 0.85 ? 'met' : 'NOT met'}); ${fmt(performance.now() - t)} ms, uncached searches`,
     );
+    await bulkDb.close();
     await db.close();
   },
 };
