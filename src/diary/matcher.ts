@@ -840,6 +840,11 @@ function features(food: ScorableFood): NameFeatures {
   return f;
 }
 
+/** The diary said this word (or its plural or singular). */
+function wordNamed(q: PreparedQuery, t: string): boolean {
+  return q.rawWords.has(t) || q.rawWords.has(`${t}s`) || q.rawWords.has(t.replace(/s$/, ''));
+}
+
 /** Works out a food's name features ahead of its first scoring (start-up preparation). */
 export function prepareForScoring(food: ScorableFood): void {
   features(food);
@@ -902,21 +907,20 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
     (n) => !q.words.some((w) => matchesWord(w, n)) && n.length > 1 && !protoWords.has(n),
   );
   const fromConcentrate = has.fromConcentrate;
-  const said = (re: RegExp) => saidIn(q, re);
   // "2% milk": the fat words of "reduced fat, 2% milkfat" say what the diary said.
   const fatStated = q.words.some((w) => /^\d+(\.\d+)?%$/.test(w));
   // Fried chicken is eaten with its skin and batter unless the diary says otherwise.
   if (
     food.group === 'Poultry Products' &&
     has.meatOnly &&
-    said(/fri|frit/) &&
-    !said(/skinless|meat only|no skin|without skin|sin piel/)
+    saidIn(q, /fri|frit/) &&
+    !saidIn(q, /skinless|meat only|no skin|without skin|sin piel/)
   )
     score -= 4;
   // Red meat cuts are eaten as served (lean and fat) unless the diary says lean.
   if (
     has.separableLeanOnly &&
-    !said(/\blean\b/) &&
+    !saidIn(q, /\blean\b/) &&
     (food.group === 'Beef Products' ||
       food.group === 'Pork Products' ||
       food.group === 'Lamb, Veal, and Game Products')
@@ -967,12 +971,12 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
       score -= 5;
   }
   // "peaches in syrup": the packing liquid is eaten too, so not the drained solids.
-  if (has.drained && said(/\b(in|en) (heavy |light )?(syrup|juice|almibar|jugo|zumo)\b/))
+  if (has.drained && saidIn(q, /\b(in|en) (heavy |light )?(syrup|juice|almibar|jugo|zumo)\b/))
     score -= 5;
   // Fruit as it comes: no sugar or salt added unless the diary says so.
   if (food.group === 'Fruits and Fruit Juices') {
-    if (has.sweetened && !said(/sweet|sugar|syrup|azucar/)) score -= 2;
-    if (has.withSalt && !said(/salt|sal\b/)) score -= 3;
+    if (has.sweetened && !saidIn(q, /sweet|sugar|syrup|azucar/)) score -= 2;
+    if (has.withSalt && !saidIn(q, /salt|sal\b/)) score -= 3;
   }
   const cookedInName = has.cooked;
   const usuallyRoasted =
@@ -987,15 +991,15 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
     if (!WITH_NEUTRAL.has(w) && !q.words.some((x) => wordMatch(x, w) === 1)) score -= 3;
   }
 
-  if (has.flavour && !said(/flavou?r/)) score -= 4;
+  if (has.flavour && !saidIn(q, /flavou?r/)) score -= 4;
   if (has.withoutAddedVitamin) score -= 3;
   // "without X" marks the special variant ("Butter, without salt"), except salt in cooked foods below
   // (has.without ignores "without added ascorbic acid": see nameTests).
-  if (has.withAddedAscorbic && !said(/vitamin c|ascorbic/)) score -= 1.5;
+  if (has.withAddedAscorbic && !saidIn(q, /vitamin c|ascorbic/)) score -= 1.5;
   const saltOnly = has.saltOnlyWithout;
   if (
     has.without &&
-    !said(/without|sin\b|unsalted|no salt/) &&
+    !saidIn(q, /without|sin\b|unsalted|no salt/) &&
     !(saltOnly && cookedInName && (q.states.size > 0 || cookedUsualFood))
   )
     score -= 1.5;
@@ -1004,9 +1008,7 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
   // The whole owner name ("Burger King"), without company words, must be named.
   const owner = food.brandOwner ? words(food.brandOwner).filter((w) => !COMPANY_WORDS.has(w)) : [];
   if (owner.length > 0) phrases.push(owner);
-  const named = (t: string) =>
-    q.rawWords.has(t) || q.rawWords.has(`${t}s`) || q.rawWords.has(t.replace(/s$/, ''));
-  const brandNamed = phrases.some((ph) => ph.every(named));
+  const brandNamed = phrases.some((ph) => ph.every((t) => wordNamed(q, t)));
   if (brandNamed) score += 15;
   else if (food.kind === 'branded' || phrases.length > 0) score -= 12;
   if (has.fastFoodHead && !brandNamed) score -= 2;
@@ -1031,7 +1033,7 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
       // Dry roasted and salted is the usual bag; oil roasted and unsalted are the variants.
       if (has.dryRoasted) score += 2;
       if (has.oilRoasted) score -= 1.5;
-      if (has.withoutSalt && !said(/salt/)) score -= 2;
+      if (has.withoutSalt && !saidIn(q, /salt/)) score -= 2;
       if (nameStates.includes('raw')) score -= 3;
     } else if (cookedUsualFood) {
       if (cookedInName) score += 6;
@@ -1044,12 +1046,12 @@ export function scoreFood(q: PreparedQuery, food: ScorableFood): ScoredFood {
     for (const st of ['canned', 'frozen', 'dried', 'smoked', 'microwaved'])
       if (nameStates.includes(st)) score -= 3;
   }
-  if (has.friedOrBattered && !said(/fri|bread|batter|frit/)) score -= 3;
-  if (has.doubleOrJumbo && !said(/double|triple|jumbo/)) score -= 4;
-  if (has.notAsEaten && !said(NOT_AS_EATEN)) score -= 5;
-  if (has.decaf && !said(/decaf|caffeine/)) score -= 3;
+  if (has.friedOrBattered && !saidIn(q, /fri|bread|batter|frit/)) score -= 3;
+  if (has.doubleOrJumbo && !saidIn(q, /double|triple|jumbo/)) score -= 4;
+  if (has.notAsEaten && !saidIn(q, NOT_AS_EATEN)) score -= 5;
+  if (has.decaf && !saidIn(q, /decaf|caffeine/)) score -= 3;
   // Cooked vegetables and legumes are tabled without salt; "with salt" entries are derived from them.
-  if (cookedExpected && cookedInName && has.withoutSalt && !said(/\bsalt/)) score += 3;
+  if (cookedExpected && cookedInName && has.withoutSalt && !saidIn(q, /\bsalt/)) score += 3;
   // Foods with more household measures in the table are commonly eaten ones.
   score += Math.min(8, food.portions?.length ?? 0) * PORTION_WEIGHT;
   return { food, score, coverage };

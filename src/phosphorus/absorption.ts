@@ -87,11 +87,23 @@ export function absorbableMg(
   amounts: PhosphorusBySourceMg,
   fractions: AbsorptionFractions = DEFAULT_ABSORPTION_FRACTIONS,
 ): AbsorptionRange {
-  const at = (k: keyof AbsorptionRange): number =>
+  return {
+    low: absorbableAt(amounts, fractions, 'low'),
+    typical: absorbableAt(amounts, fractions, 'typical'),
+    high: absorbableAt(amounts, fractions, 'high'),
+  };
+}
+
+function absorbableAt(
+  amounts: PhosphorusBySourceMg,
+  fractions: AbsorptionFractions,
+  k: keyof AbsorptionRange,
+): number {
+  return (
     amounts.animalOrganicMg * fractions.animalOrganic[k] +
     amounts.plantNonPhytateMg * fractions.plantOrganic[k] +
     amounts.phytateMg * fractions.phytate[k] +
     amounts.additiveMg * fractions.additive[k] +
-    amounts.unknownMg * fractions.unknown[k];
-  return { low: at('low'), typical: at('typical'), high: at('high') };
+    amounts.unknownMg * fractions.unknown[k]
+  );
 }

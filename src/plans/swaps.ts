@@ -1,7 +1,7 @@
 import type { Food } from '../foods/food.js';
 import type { AbsorptionFractions } from '../phosphorus/absorption.js';
 import { nameWords } from '../foods/text.js';
-import { profileFood } from '../phosphorus/profile.js';
+import { profileFood, type PhosphorusProfile } from '../phosphorus/profile.js';
 
 /** Below this protein (g/100 g) a food is compared per portion instead (common practice, no source). */
 export const SWAP_MIN_PROTEIN_G_PER_100G = 1;
@@ -61,7 +61,12 @@ function metric(
   basis: SwapBasis,
   fractions: AbsorptionFractions | undefined,
 ): number | null {
-  const abs = profileFood(food, fractions).absorbableMg;
+  return metricOf(food, profileFood(food, fractions), basis);
+}
+
+/** `metric` from a profile already made. */
+function metricOf(food: Food, profile: PhosphorusProfile, basis: SwapBasis): number | null {
+  const abs = profile.absorbableMg;
   if (!abs) return null;
   if (basis === 'per-g-protein') {
     const prot = food.per100g.proteinG;
@@ -131,9 +136,9 @@ export function rankSwaps(
     if (swapBasis(c) !== basis) continue;
     if (basis === 'per-g-protein' && (c.per100g.proteinG ?? 0) < SWAP_MIN_PROTEIN_SHARE * origProt)
       continue;
-    const m = metric(c, basis, opts.fractions);
-    if (m === null || m > opts.maxShare * orig) continue;
     const prof = profileFood(c, opts.fractions);
+    const m = metricOf(c, prof, basis);
+    if (m === null || m > opts.maxShare * orig) continue;
     out.push({
       foodId: c.id,
       name: c.name,
