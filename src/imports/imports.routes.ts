@@ -7,6 +7,7 @@ import { z } from 'zod';
 import { findImporter, importers } from '../../data-import/registry.js';
 import type { Clock } from '../clock.js';
 import type { Db } from '../db/database.js';
+import { DiaryAuditService } from '../diary/diary.service.js';
 import { AppError, BadRequestError, NotFoundError } from '../errors.js';
 import { importFieldsSchema, MAX_IMPORT_BYTES, type ImportJob } from './imports.js';
 import { ImportJobs } from './imports.service.js';
@@ -25,8 +26,12 @@ export const importRoutes: FastifyPluginAsync<{ db: Db; clock: Clock }> = async 
     throwFileSizeLimit: false,
     limits: { fileSize: MAX_IMPORT_BYTES, files: 1, fields: 5, fieldSize: 200 },
   });
-  const jobs = new ImportJobs(opts.db, opts.clock);
+  // After an import, diary audits' name indexes and foods are rebuilt for the new tables.
+  const jobs = new ImportJobs(opts.db, opts.clock, (signal) =>
+    new DiaryAuditService(opts.db, opts.clock, { longRunning: true }).prepare({ signal }),
+  );
   app.addHook('onClose', async () => {
+    jobs.stop();
     await jobs.idle();
   });
   const api = app.withTypeProvider<ZodTypeProvider>();

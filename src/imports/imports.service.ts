@@ -22,11 +22,22 @@ export class ImportJobs {
   private readonly jobs = new Map<number, ImportJob>();
   private seq = 0;
   private chain: Promise<void> = Promise.resolve();
+  private readonly stopping = new AbortController();
 
+  /**
+   * `afterImport` runs after each import that changed the tables (e.g. rebuilding what diary
+   * audits keep in memory); its failure does not fail the import.
+   */
   constructor(
     private readonly db: Db,
     private readonly clock: Clock,
+    private readonly afterImport: (signal: AbortSignal) => Promise<unknown> = async () => {},
   ) {}
+
+  /** Stops the after-import work early (shutdown); queued imports still run to the end. */
+  stop(): void {
+    this.stopping.abort();
+  }
 
   list(): ImportJob[] {
     return [...this.jobs.values()].sort((a, b) => b.id - a.id);
@@ -101,6 +112,9 @@ export class ImportJobs {
       if (result.ok) {
         job.state = 'done';
         job.fraction = 1;
+        if (!this.stopping.signal.aborted) {
+          await this.afterImport(this.stopping.signal).catch(() => undefined);
+        }
       } else {
         job.state = 'failed';
         job.error = { code: result.fatal.code, message: result.fatal.message };

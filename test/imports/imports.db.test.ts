@@ -96,6 +96,14 @@ describe('upload imports (POST /api/imports)', () => {
     expect(src.foods).toBe(job.result.imported);
     const list = (await ctx.inject({ url: '/api/imports' })).json();
     expect(list[0].id).toBe(started.id);
+    // Diary audits see the new table: the fixture's invented "Demo renal bread, low phosphorus".
+    const audit = await ctx.inject({
+      method: 'POST',
+      url: '/api/diary-audits',
+      payload: { text: 'breakfast: 2 slices demo renal bread\n' },
+    });
+    expect(audit.statusCode, audit.body).toBe(201);
+    expect(audit.json().entries[0].match.name).toBe('Demo renal bread, low phosphorus');
   });
 
   it('reports a fatal problem as a failed job and changes nothing', async () => {
