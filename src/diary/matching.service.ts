@@ -4,8 +4,9 @@ import {
   matchConfidence,
   memoryKey,
   prepareQuery,
-  rankFoods,
+  scoreFood,
   searchTexts,
+  sortScored,
   spellingVariants,
   type ScoredFood,
 } from './matcher.js';
@@ -94,14 +95,18 @@ export class DiaryMatcher {
       notes.push('no food words to search for');
       return { food: null, method: 'none', confidence: 0, candidates: [], notes };
     }
-    const seen = new Map<number, Food>();
+    // Each food found is scored once, however many search texts find it (the order is total:
+    // score, name length, id, so sorting the growing list gives what ranking them all would).
+    const scored = new Map<number, ScoredFood<Food>>();
     let best: ScoredFood<Food>[] = [];
     for (const text of searchTexts(q)) {
       for (const t of [text, ...spellingVariants(text)]) {
         const found = await this.foods.search({ q: t, limit: SEARCH_LIMIT });
-        for (const f of found) seen.set(f.id, f);
+        for (const f of found) {
+          if (!scored.has(f.id)) scored.set(f.id, scoreFood(q, f) as ScoredFood<Food>);
+        }
       }
-      best = rankFoods(q, [...seen.values()]);
+      best = sortScored([...scored.values()]);
       // Stop once every query word is covered by the best food.
       if (best[0] && best[0].coverage >= 1) break;
     }

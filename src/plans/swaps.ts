@@ -64,6 +64,24 @@ function metric(
   return metricOf(food, profileFood(food, fractions), basis);
 }
 
+/**
+ * Profiles of candidate foods, per food object and fractions object: the same foods come back as
+ * candidates for every food of their group, and the tables' food objects are shared and never
+ * changed. A WeakMap, so nothing outlives the foods.
+ */
+const profiles = new WeakMap<
+  Food,
+  { fractions: AbsorptionFractions | undefined; profile: PhosphorusProfile }
+>();
+
+function profileOf(food: Food, fractions: AbsorptionFractions | undefined): PhosphorusProfile {
+  const hit = profiles.get(food);
+  if (hit && hit.fractions === fractions) return hit.profile;
+  const profile = profileFood(food, fractions);
+  profiles.set(food, { fractions, profile });
+  return profile;
+}
+
 /** `metric` from a profile already made. */
 function metricOf(food: Food, profile: PhosphorusProfile, basis: SwapBasis): number | null {
   const abs = profile.absorbableMg;
@@ -136,7 +154,7 @@ export function rankSwaps(
     if (swapBasis(c) !== basis) continue;
     if (basis === 'per-g-protein' && (c.per100g.proteinG ?? 0) < SWAP_MIN_PROTEIN_SHARE * origProt)
       continue;
-    const prof = profileFood(c, opts.fractions);
+    const prof = profileOf(c, opts.fractions);
     const m = metricOf(c, prof, basis);
     if (m === null || m > opts.maxShare * orig) continue;
     out.push({
