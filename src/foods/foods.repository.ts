@@ -309,6 +309,10 @@ export class FoodRepository {
   /** FTS5's own tokens of each text (unicode61, remove_diacritics 2, as food_fts), distinct. */
   private async ftsTokens(texts: readonly { id: number; text: string }[]) {
     return this.db.connection().execute(async (conn) => {
+      // One connection throughout (temporary tables are per connection); leftovers of a build
+      // that died half-way are dropped first.
+      await sql`drop table if exists temp.name_tokens_terms`.execute(conn);
+      await sql`drop table if exists temp.name_tokens`.execute(conn);
       await sql`create virtual table temp.name_tokens using fts5(t, tokenize = 'unicode61 remove_diacritics 2')`.execute(
         conn,
       );
