@@ -35,6 +35,15 @@ const foodColumns = [
   'food_source.release as source_release',
 ] as const;
 
+/** The columns of a search candidate (`NameRow`). */
+const nameRowColumns = [
+  'food.id',
+  'food.name',
+  'food.alt_names',
+  'food.kind',
+  'food.source_id',
+] as const;
+
 function parseAltNames(json: string): string[] {
   try {
     const v: unknown = JSON.parse(json);
@@ -187,7 +196,7 @@ export class FoodRepository {
     let q = this.db
       .selectFrom('food_fts')
       .innerJoin('food', 'food.id', 'food_fts.rowid')
-      .select(['food.id', 'food.name', 'food.alt_names', 'food.kind', 'food.source_id'])
+      .select(nameRowColumns)
       .where(sql<boolean>`food_fts match ${match}`)
       .orderBy(sql`food_fts.rowid`)
       .limit(opts.limit);
@@ -218,7 +227,7 @@ export class FoodRepository {
     const upper = `${opts.prefix}\u{10FFFF}`;
     let q = this.db
       .selectFrom('food')
-      .select(['food.id', 'food.name', 'food.alt_names', 'food.kind', 'food.source_id'])
+      .select(nameRowColumns)
       .where('food.kind', '=', opts.kind)
       .where(sql<boolean>`lower(food.name) >= ${opts.prefix}`)
       .where(sql<boolean>`lower(food.name) < ${upper}`)
@@ -258,14 +267,7 @@ export class FoodRepository {
     const byName = (
       await this.db
         .selectFrom('food')
-        .select([
-          'food.id',
-          'food.name',
-          'food.alt_names',
-          'food.kind',
-          'food.source_id',
-          sql<string>`lower(food.name)`.as('name_key'),
-        ])
+        .select([...nameRowColumns, sql<string>`lower(food.name)`.as('name_key')])
         .where('food.kind', '=', kind)
         .orderBy(sql`lower(food.name)`)
         .orderBy('food.id')
@@ -276,11 +278,7 @@ export class FoodRepository {
       .selectFrom('food_fts')
       .innerJoin('food', 'food.id', 'food_fts.rowid')
       .select([
-        'food.id',
-        'food.name',
-        'food.alt_names',
-        'food.kind',
-        'food.source_id',
+        ...nameRowColumns,
         sql<string>`coalesce(food_fts.name, '') || ' ' || coalesce(food_fts.alt_names, '')`.as(
           'indexed',
         ),
