@@ -8,6 +8,7 @@ import { ADDITIVE_CATALOGUE_VERSION } from '../../src/additives/catalogue.js';
 import { runCli } from '../../src/cli/main.js';
 import type { Food } from '../../src/foods/food.js';
 import { createTestContext, type TestContext } from '../helpers/context.js';
+import { testFood } from '../helpers/food.js';
 import { insertFoods } from '../helpers/sr28.js';
 
 let ctx: TestContext;
@@ -20,34 +21,19 @@ afterEach(async () => {
 
 /** Invented branded demo foods (not real products). */
 function branded(code: string, ingredients: string | null): Food {
-  return {
+  return testFood({
     id: 0,
     sourceId: 0,
     source: 'demo-branded',
-    sourceRelease: 'invented',
     code,
     name: `Demo product ${code}`,
-    altNames: [],
     group: 'Sausages and Luncheon Meats',
     kind: 'branded',
     brandOwner: 'Demo',
-    gtin: null,
     ingredients,
     ingredientsLanguage: 'en',
-    servingG: null,
-    servingText: null,
-    portions: [],
-    per100g: {
-      phosphorusMg: 290,
-      proteinG: 19.3,
-      energyKcal: null,
-      potassiumMg: null,
-      sodiumMg: null,
-      calciumMg: null,
-      waterG: null,
-      phytateMg: null,
-    },
-  };
+    per100g: { phosphorusMg: 290, proteinG: 19.3 },
+  });
 }
 
 describe('POST /api/ingredients/analyze', () => {

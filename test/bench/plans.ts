@@ -14,6 +14,7 @@ import { PatientService } from '../../src/patients/patients.service.js';
 import { FoodRepository } from '../../src/foods/foods.repository.js';
 import { SESSION_COOKIE } from '../../src/auth/auth.js';
 import { createTestContext } from '../helpers/context.js';
+import { testFood } from '../helpers/food.js';
 import { hasSr28 } from '../helpers/shared.js';
 import { insertFoods, sr28Foods } from '../helpers/sr28.js';
 import type { BenchSection } from './sections.js';
@@ -55,34 +56,25 @@ const NDB = [
 
 function benchFoods(): Food[] {
   if (hasSr28) return sr28Foods(...NDB);
-  return NDB.map((code, i) => ({
-    id: i + 1,
-    sourceId: 1,
-    source: 'bench',
-    sourceRelease: 'invented',
-    code,
-    name: `Invented food ${i}`,
-    altNames: [],
-    group: 'Invented',
-    kind: 'generic',
-    brandOwner: null,
-    gtin: null,
-    ingredients: null,
-    ingredientsLanguage: null,
-    servingG: null,
-    servingText: null,
-    portions: [],
-    per100g: {
-      phosphorusMg: 50 + i * 10,
-      proteinG: 1 + i,
-      energyKcal: 100,
-      potassiumMg: 200,
-      sodiumMg: 100,
-      calciumMg: 50,
-      waterG: 50,
-      phytateMg: null,
-    },
-  }));
+  // Invented values (no table): only the shape of the work matters when SR28 is missing.
+  return NDB.map((code, i) =>
+    testFood({
+      id: i + 1,
+      source: 'bench',
+      code,
+      name: `Invented food ${i}`,
+      group: 'Invented',
+      per100g: {
+        phosphorusMg: 50 + i * 10,
+        proteinG: 1 + i,
+        energyKcal: 100,
+        potassiumMg: 200,
+        sodiumMg: 100,
+        calciumMg: 50,
+        waterG: 50,
+      },
+    }),
+  );
 }
 
 function weekPlan(foods: readonly Food[]): PlanContent {

@@ -4,6 +4,7 @@ import { analyzeIngredients } from '../../src/additives/ingredient-parser.js';
 import type { Food } from '../../src/foods/food.js';
 import { DEFAULT_ABSORPTION_FRACTIONS } from '../../src/phosphorus/absorption.js';
 import { createTestContext, type TestContext } from '../helpers/context.js';
+import { testFood } from '../helpers/food.js';
 import { hasSr28, SR28_MISSING } from '../helpers/shared.js';
 import { insertFoods, sr28Foods } from '../helpers/sr28.js';
 
@@ -80,34 +81,20 @@ describe('phosphorus profile in the food JSON', () => {
 
   it('uses the stored scan of a branded food when it is current', async () => {
     // invented demo product: the stored scan names E 451 although the statement (edited later) does not
-    const food: Food = {
+    const food = testFood({
       id: 0,
       sourceId: 0,
       source: 'demo-branded',
-      sourceRelease: 'invented',
       code: 'D1',
       name: 'Demo chicken slices',
-      altNames: [],
       group: 'Poultry Products',
       kind: 'branded',
       brandOwner: 'Demo',
-      gtin: null,
       ingredients: 'chicken, water, salt',
       ingredientsLanguage: 'en',
-      servingG: null,
-      servingText: null,
-      portions: [],
-      per100g: {
-        phosphorusMg: 250,
-        proteinG: 20,
-        energyKcal: null,
-        potassiumMg: null,
-        sodiumMg: null,
-        calciumMg: null,
-        waterG: null,
-        phytateMg: null,
-      },
-    };
+      per100g: { phosphorusMg: 250, proteinG: 20 },
+    });
+
     const [saved] = insertFoods(ctx.db, [food], {
       format: 'demo-branded',
       name: 'Demo products',
