@@ -1,8 +1,8 @@
-import { fileURLToPath } from 'node:url';
+import { projectPath } from './paths.js';
 import { z } from 'zod';
 
 /** Where the embedded default database lives, relative to the checkout. */
-export const DEFAULT_DB_FILE = fileURLToPath(new URL('../db/phosledger.sqlite', import.meta.url));
+export const DEFAULT_DB_FILE = projectPath('db', 'phosledger.sqlite');
 
 const envSchema = z.object({
   PHOSLEDGER_DB: z.string().min(1).optional(),

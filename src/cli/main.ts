@@ -1,15 +1,16 @@
 import { parseArgs } from 'node:util';
 import { loadConfig, type Config } from '../config.js';
-import { migrateToLatest, openDb, type Db } from '../db/database.js';
+import type { Db } from '../db/database.js';
 import { UsageError, type Command, type CommandContext } from './command.js';
-import { commands } from './commands/index.js';
+import { loadCommandsFor } from './commands/index.js';
+import { commandSummaries, type CommandSummary } from './manifest.js';
 
-function usageLine(c: Command): string {
+function usageLine(c: CommandSummary): string {
   return `phosledger ${c.path.join(' ')}${c.usage ? ` ${c.usage}` : ''}`;
 }
 
-function helpText(): string {
-  const lines = commands.map((c) => `  ${usageLine(c)}\n      ${c.summary}`);
+async function helpText(): Promise<string> {
+  const lines = (await commandSummaries()).map((c) => `  ${usageLine(c)}\n      ${c.summary}`);
   return [
     'phosledger: dietary phosphate load planner (estimates only; the care team decides)',
     '',
@@ -21,10 +22,10 @@ function helpText(): string {
   ].join('\n');
 }
 
-/** Finds the command whose words match the longest prefix of argv. */
-function findCommand(argv: string[]): Command | undefined {
+/** Finds the command whose words match the longest prefix of argv (loading only its module). */
+async function findCommand(argv: string[]): Promise<Command | undefined> {
   let best: Command | undefined;
-  for (const c of commands) {
+  for (const c of await loadCommandsFor(argv[0] ?? '')) {
     if (c.path.every((w, i) => argv[i] === w) && (!best || c.path.length > best.path.length))
       best = c;
   }
@@ -41,12 +42,14 @@ export interface RunIo {
 /** Runs one CLI invocation and returns its exit code (0 ok, 1 failure, 2 usage). */
 export async function runCli(argv: string[], io: RunIo): Promise<number> {
   if (argv.length === 0 || argv[0] === '--help' || argv[0] === 'help' || argv[0] === '-h') {
-    io.stdout.write(helpText());
+    io.stdout.write(await helpText());
     return argv.length === 0 ? 2 : 0;
   }
-  const command = findCommand(argv);
+  const command = await findCommand(argv);
   if (!command) {
-    io.stderr.write(`phosledger: unknown command '${argv.slice(0, 2).join(' ')}'\n\n${helpText()}`);
+    io.stderr.write(
+      `phosledger: unknown command '${argv.slice(0, 2).join(' ')}'\n\n${await helpText()}`,
+    );
     return 2;
   }
   let db: Db | undefined;
@@ -78,6 +81,7 @@ export async function runCli(argv: string[], io: RunIo): Promise<number> {
       config,
       async db() {
         if (!db) {
+          const { migrateToLatest, openDb } = await import('../db/database.js');
           db = openDb(config.dbFile);
           await migrateToLatest(db);
         }

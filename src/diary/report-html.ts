@@ -1,3 +1,4 @@
+import { projectPath } from '../paths.js';
 import { readFileSync } from 'node:fs';
 import Handlebars from 'handlebars';
 import type { DiaryReportView } from './report-view.js';
@@ -8,10 +9,7 @@ let compiled: HandlebarsTemplateDelegate<DiaryReportView> | undefined;
 export function renderDiaryReportHtml(view: DiaryReportView): string {
   if (!compiled) {
     const hbs = Handlebars.create();
-    const source = readFileSync(
-      new URL('../../templates/diary/audit.hbs', import.meta.url),
-      'utf8',
-    );
+    const source = readFileSync(projectPath('templates', 'diary', 'audit.hbs'), 'utf8');
     compiled = hbs.compile<DiaryReportView>(source, { strict: true });
   }
   return compiled(view);

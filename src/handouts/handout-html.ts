@@ -1,15 +1,13 @@
+import { projectPath } from '../paths.js';
 import { readFileSync, readdirSync } from 'node:fs';
 import { join } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import Handlebars from 'handlebars';
 import type { LanguageStatus } from '../i18n/catalogue.js';
 import type { PaperSize } from './handout.js';
 import type { ChartVm, HandoutViewModel } from './view-model.js';
 
 /** Templates and their partials, next to the message catalogues under templates/. */
-export const HANDOUT_TEMPLATES_DIR = fileURLToPath(
-  new URL('../../templates/handout', import.meta.url),
-);
+export const HANDOUT_TEMPLATES_DIR = projectPath('templates', 'handout');
 
 /** Where the routes serve the stylesheet and fonts of the HTML view. */
 export const HANDOUT_ASSETS_PATH = '/handouts/assets';

@@ -1,15 +1,13 @@
+import { projectPath } from '../paths.js';
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { IntlMessageFormat } from 'intl-messageformat';
 import { AppError } from '../errors.js';
 import { catalogueFileSchema, type CatalogueProblem } from './catalogue.js';
 import { MessageBundle, messageArguments, type Catalogue } from './messages.js';
 
 /** Where the catalogue files live: `templates/locales/` in the checkout. */
-export const DEFAULT_LOCALES_DIR = fileURLToPath(
-  new URL('../../templates/locales', import.meta.url),
-);
+export const DEFAULT_LOCALES_DIR = projectPath('templates', 'locales');
 
 /** The reference language: every other catalogue is checked against its keys. */
 export const REFERENCE_LANGUAGE = 'en';

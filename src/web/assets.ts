@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto';
 import { readFile } from 'node:fs/promises';
-import { fileURLToPath } from 'node:url';
-import { build } from 'esbuild';
+import { join } from 'node:path';
+import { DIST_DIR, projectPath, RUNNING_COMPILED } from '../paths.js';
 
 /** One page's client module; the bundle is built from `src/web/client/pages/<name>.ts`. */
 export const PAGE_MODULES = [
@@ -25,8 +25,10 @@ export interface Asset {
 /** Bundled client modules and the stylesheet, keyed by URL path under /assets/. */
 export type AssetMap = ReadonlyMap<string, Asset>;
 
-const CLIENT_DIR = fileURLToPath(new URL('./client/', import.meta.url));
-const STYLE_FILE = fileURLToPath(new URL('./styles/app.css', import.meta.url));
+const CLIENT_DIR = projectPath('src', 'web', 'client');
+const STYLE_FILE = projectPath('src', 'web', 'styles', 'app.css');
+/** Where `npm run build` writes the bundles the compiled server serves. */
+export const BUILT_ASSETS_DIR = join(DIST_DIR, 'public', 'assets');
 
 function asset(body: Buffer, contentType: string): Asset {
   const etag = `"${createHash('sha256').update(body).digest('base64url').slice(0, 22)}"`;
@@ -36,18 +38,20 @@ function asset(body: Buffer, contentType: string): Asset {
 let cached: Promise<AssetMap> | undefined;
 
 /**
- * Bundles every page module with esbuild in memory (once per process: about 100 ms), one file
- * per screen, minified, targeting current browsers. Nothing is
- * written to disk and nothing is fetched from the network at run time.
+ * The client bundles and the stylesheet, once per process. The compiled program serves the
+ * bundles `npm run build` wrote; the TypeScript sources (tests, development) bundle them in
+ * memory with esbuild (about 100 ms), so a changed client module is never served stale.
  */
 export function loadAssets(): Promise<AssetMap> {
-  cached ??= bundleAssets();
+  cached ??= RUNNING_COMPILED ? readBuiltAssets() : bundleInMemory();
   return cached;
 }
 
-async function bundleAssets(): Promise<AssetMap> {
-  const result = await build({
-    entryPoints: PAGE_MODULES.map((p) => `${CLIENT_DIR}pages/${p}.ts`),
+/** Bundles every page module: one self-contained, minified file per screen. */
+export async function bundleClient(outdir: string, write: boolean) {
+  const { build } = await import('esbuild');
+  return build({
+    entryPoints: PAGE_MODULES.map((p) => join(CLIENT_DIR, 'pages', `${p}.ts`)),
     bundle: true,
     // One self-contained file per screen: a few kB repeated across screens costs less than
     // the request waterfall that shared chunks add to the first paint.
@@ -55,18 +59,31 @@ async function bundleAssets(): Promise<AssetMap> {
     format: 'esm',
     minify: true,
     target: ['chrome110', 'firefox115', 'safari16'],
-    outdir: '/assets',
+    outdir,
     entryNames: '[name]',
-    write: false,
+    write,
     logLevel: 'silent',
     legalComments: 'none',
   });
+}
+
+async function bundleInMemory(): Promise<AssetMap> {
+  const result = await bundleClient('/assets', false);
   const map = new Map<string, Asset>();
-  for (const file of result.outputFiles) {
+  for (const file of result.outputFiles ?? []) {
     const name = file.path.slice(file.path.lastIndexOf('/assets/'));
     map.set(name, asset(Buffer.from(file.contents), 'text/javascript; charset=utf-8'));
   }
-  const css = await readFile(STYLE_FILE);
-  map.set('/assets/app.css', asset(css, 'text/css; charset=utf-8'));
+  map.set('/assets/app.css', asset(await readFile(STYLE_FILE), 'text/css; charset=utf-8'));
+  return map;
+}
+
+async function readBuiltAssets(): Promise<AssetMap> {
+  const map = new Map<string, Asset>();
+  for (const page of PAGE_MODULES) {
+    const body = await readFile(join(BUILT_ASSETS_DIR, `${page}.js`));
+    map.set(`/assets/${page}.js`, asset(body, 'text/javascript; charset=utf-8'));
+  }
+  map.set('/assets/app.css', asset(await readFile(STYLE_FILE), 'text/css; charset=utf-8'));
   return map;
 }

@@ -1,5 +1,5 @@
+import { projectPath } from '../paths.js';
 import { readdirSync, readFileSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
 import Handlebars from 'handlebars';
 import type { PageModule } from './assets.js';
 
@@ -63,7 +63,7 @@ export const PAGES: readonly PageDef[] = [
   },
 ];
 
-const TEMPLATE_DIR = fileURLToPath(new URL('../../templates/web/', import.meta.url));
+const TEMPLATE_DIR = `${projectPath('templates', 'web')}/`;
 
 export type PageRenderer = (page: PageDef, params: Record<string, string>) => string;
 

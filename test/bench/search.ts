@@ -5,11 +5,9 @@
  * Goal: p95 < 5 ms on the 1M set. Also: server start to the first /api/health answer on an
  * existing database (goal < 10 s). Databases live in the temp folder, never in the checkout.
  */
-import { spawn } from 'node:child_process';
 import { existsSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { usdaSr28 } from '../../data-import/usda-sr28.js';
 import { migrateToLatest, openDb, type Db } from '../../src/db/database.js';
 import { FoodRepository } from '../../src/foods/foods.repository.js';
@@ -17,6 +15,7 @@ import { FoodService } from '../../src/foods/foods.service.js';
 import { ftsPrefixQuery, searchWords } from '../../src/foods/text.js';
 import { migrations } from '../../migrations/index.js';
 import { SR28_DIR, SR28_MISSING, hasSr28 } from '../helpers/shared.js';
+import { SOURCE_BIN, timeServerReady } from './startup.js';
 import type { BenchSection } from './sections.js';
 import { fmt, percentile } from './stats.js';
 
@@ -174,39 +173,7 @@ async function branded1M(): Promise<Db> {
 }
 
 async function serverStart(dbFile: string) {
-  const bin = fileURLToPath(new URL('../../src/cli/bin.js', import.meta.url));
-  const env = { ...process.env, PHOSLEDGER_DB: dbFile, PHOSLEDGER_LOG_LEVEL: 'silent' };
-  const once = () =>
-    new Promise<number>((resolve, reject) => {
-      const t0 = performance.now();
-      const child = spawn(process.execPath, [bin, 'serve', '--port', '0'], {
-        env,
-        stdio: ['ignore', 'pipe', 'pipe'],
-      });
-      let out = '';
-      const timer = setTimeout(() => {
-        child.kill('SIGKILL');
-        reject(new Error(`server did not start in 60 s: ${out}`));
-      }, 60_000);
-      child.stdout.on('data', async (d: Buffer) => {
-        out += d.toString();
-        const m = /listening on (http:\/\/\S+)/.exec(out);
-        if (!m) return;
-        child.stdout.removeAllListeners('data');
-        for (;;) {
-          try {
-            const res = await fetch(`${m[1]}/api/health`);
-            if (res.ok) break;
-          } catch {
-            /* not yet */
-          }
-        }
-        const ms = performance.now() - t0;
-        clearTimeout(timer);
-        child.kill('SIGTERM');
-        child.once('exit', () => resolve(ms));
-      });
-    });
+  const once = () => timeServerReady(SOURCE_BIN, dbFile);
   await once(); // the first start may run first-start steps; measure the next ones
   const times = [await once(), await once()];
   console.log(

@@ -13,7 +13,7 @@ import { loadConfig } from '../../src/config.js';
 import { FIXTURES, copyFixture, tempDir } from './helpers.js';
 
 const clock = fixedClock('2026-03-05T09:30:00Z'); // invented fixed test time
-const BIN = fileURLToPath(new URL('../../src/cli/bin.js', import.meta.url));
+const BIN = fileURLToPath(new URL('../../src/cli/dev-bin.js', import.meta.url));
 
 async function cli(args: string[], dbFile: string) {
   const stdout = new PassThrough();

@@ -14,7 +14,7 @@ import { hasSr28, SR28_DIR, SR28_MISSING } from '../helpers/shared.js';
  * database that passes `PRAGMA integrity_check`, holds the earlier release exactly as it was and
  * no part of the killed one. Uses the complete USDA SR28 release beside the checkout.
  */
-const BIN = fileURLToPath(new URL('../../src/cli/bin.js', import.meta.url));
+const BIN = fileURLToPath(new URL('../../src/cli/dev-bin.js', import.meta.url));
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
 const t = (name: string) =>
   hasSr28 ? `${name} (USDA SR28, full release)` : `${name} (${SR28_MISSING})`;

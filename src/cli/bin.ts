@@ -1,16 +1,15 @@
 #!/usr/bin/env node
-// Runs the TypeScript sources directly (no build step), so `npx phosledger` works after `npm ci`.
-import { register } from 'tsx/esm/api';
+// The `phosledger` command: `npm run build` compiles this to dist/src/cli/bin.js (package.json
+// `bin` and `npm start`); src/cli/dev-bin.js runs the same file from the sources through tsx.
+import { runCli } from './main.js';
 
-register();
 // A reader that stops early (`phosledger plan summary 1 --json | head`) is not an error.
 for (const stream of [process.stdout, process.stderr]) {
-  stream.on('error', (err) => {
+  stream.on('error', (err: NodeJS.ErrnoException) => {
     if (err.code === 'EPIPE') process.exit(process.exitCode ?? 0);
     throw err;
   });
 }
-const { runCli } = await import('./main.ts');
 const code = await runCli(process.argv.slice(2), {
   stdout: process.stdout,
   stderr: process.stderr,
