@@ -16,7 +16,9 @@ import { migrateToLatest, openDb, type Db } from '../../src/db/database.js';
 
 const SERVER = fileURLToPath(new URL('./server-process.ts', import.meta.url));
 
-export const CHROMIUM = '/usr/bin/chromium';
+import { CHROMIUM } from '../helpers/requirements.js';
+
+export { CHROMIUM };
 /** Invented test credentials (never a real account). */
 export const E2E_USER = { username: 'dietitian-e2e', password: 'plate ledger test password 42' };
 
