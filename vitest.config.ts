@@ -1,12 +1,30 @@
 import { defineConfig } from 'vitest/config';
 
+/**
+ * Two projects: `fast` is what `npm test` runs; `slow` (`npm run test:slow`, CI runs both) holds
+ * the tests that start real processes, browsers or walk the whole SR28 release: the kill and
+ * restart test, socket and fuzz tests, the browser tests and the name-index equivalence checks.
+ */
+const SLOW = [
+  'test/security/kill.db.test.ts',
+  'test/security/socket.db.test.ts',
+  'test/security/fuzz.db.test.ts',
+  'test/foods/name-index.db.test.ts',
+  'test/diary/prepare.db.test.ts',
+  'test/web/**/*.e2e.db.test.ts',
+];
+
 export default defineConfig({
   test: {
-    include: ['test/**/*.test.ts'],
-    exclude: ['node_modules/**', 'test/bench/**'],
+    exclude: ['node_modules/**', 'dist/**', 'test/bench/**'],
     allowOnly: !process.env.CI,
     testTimeout: 60_000,
     hookTimeout: 120_000,
     pool: 'forks',
+    reporters: ['default', './test/helpers/slowest-reporter.ts'],
+    projects: [
+      { extends: true, test: { name: 'fast', include: ['test/**/*.test.ts'], exclude: SLOW } },
+      { extends: true, test: { name: 'slow', include: SLOW } },
+    ],
   },
 });

@@ -1,6 +1,7 @@
 import { mkdirSync } from 'node:fs';
 import { dirname } from 'node:path';
 import Database from 'better-sqlite3';
+import { LRUCache } from 'lru-cache';
 import { Kysely, Migrator, SqliteDialect, type MigrationProvider } from 'kysely';
 import { migrations } from '../../migrations/index.js';
 import type { DB } from './schema.js';
@@ -46,7 +47,7 @@ const STATEMENT_CACHE_MAX_SQL = 4000;
  * runs one query at a time on its single connection, so a kept statement is never busy.
  */
 function withStatementCache(sqlite: Database.Database) {
-  const kept = new Map<string, Database.Statement>();
+  const kept = new LRUCache<string, Database.Statement>({ max: STATEMENT_CACHE_SIZE });
   return {
     close: () => {
       kept.clear();
@@ -54,16 +55,9 @@ function withStatementCache(sqlite: Database.Database) {
     },
     prepare: (sql: string): Database.Statement => {
       const hit = kept.get(sql);
-      if (hit) {
-        kept.delete(sql);
-        kept.set(sql, hit);
-        return hit;
-      }
+      if (hit) return hit;
       const stmt = sqlite.prepare(sql);
-      if (sql.length <= STATEMENT_CACHE_MAX_SQL) {
-        kept.set(sql, stmt);
-        if (kept.size > STATEMENT_CACHE_SIZE) kept.delete(kept.keys().next().value as string);
-      }
+      if (sql.length <= STATEMENT_CACHE_MAX_SQL) kept.set(sql, stmt);
       return stmt;
     },
   };

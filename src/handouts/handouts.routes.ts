@@ -6,6 +6,7 @@ import { z } from 'zod';
 import type { Clock } from '../clock.js';
 import type { Db } from '../db/database.js';
 import { NotFoundError } from '../errors.js';
+import { sendStaticAsset, staticAsset, type StaticAsset } from '../server/static-asset.js';
 import { FoodRepository } from '../foods/foods.repository.js';
 import { loadCataloguesOrThrow, type Languages } from '../i18n/loader.js';
 import { settingsSource } from '../plans/plan-settings-source.js';
@@ -122,7 +123,10 @@ export const handoutRoutes: FastifyPluginAsync<HandoutRoutesOptions> = async (ap
   );
 
   const css = new Map(
-    STYLESHEETS.map((f) => [f, readFileSync(join(HANDOUT_TEMPLATES_DIR, f), 'utf8')]),
+    STYLESHEETS.map((f) => [
+      f,
+      staticAsset(readFileSync(join(HANDOUT_TEMPLATES_DIR, f)), 'text/css; charset=utf-8'),
+    ]),
   );
   api.get(
     `${HANDOUT_ASSETS_PATH}/:file`,
@@ -133,12 +137,11 @@ export const handoutRoutes: FastifyPluginAsync<HandoutRoutesOptions> = async (ap
     async (req, reply) => {
       const sheet = css.get(req.params.file as (typeof STYLESHEETS)[number]);
       if (sheet === undefined) throw new NotFoundError('handout asset', req.params.file);
-      return reply
-        .header('content-type', 'text/css; charset=utf-8')
-        .header('cache-control', 'public, max-age=3600')
-        .send(sheet);
+      return sendStaticAsset(req, reply, sheet, 'public, max-age=3600');
     },
   );
+  // Fonts are read once, on first use (the Chinese one is several MB), then served from memory.
+  const fonts = new Map<string, StaticAsset>();
   api.get(
     `${HANDOUT_ASSETS_PATH}/fonts/:file`,
     {
@@ -150,11 +153,15 @@ export const handoutRoutes: FastifyPluginAsync<HandoutRoutesOptions> = async (ap
       if (!m || !(FONT_FAMILIES as readonly string[]).includes(m[1] as string)) {
         throw new NotFoundError('handout font', req.params.file);
       }
-      const file = fontFile(m[1] as FontFamily, m[2] as FontWeight);
-      return reply
-        .header('content-type', 'font/ttf')
-        .header('cache-control', 'public, max-age=86400')
-        .send(readFileSync(file));
+      let font = fonts.get(req.params.file);
+      if (!font) {
+        font = staticAsset(
+          readFileSync(fontFile(m[1] as FontFamily, m[2] as FontWeight)),
+          'font/ttf',
+        );
+        fonts.set(req.params.file, font);
+      }
+      return sendStaticAsset(req, reply, font, 'public, max-age=86400');
     },
   );
 };

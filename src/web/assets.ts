@@ -1,7 +1,7 @@
-import { createHash } from 'node:crypto';
 import { readFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { DIST_DIR, projectPath, RUNNING_COMPILED } from '../paths.js';
+import { staticAsset, type StaticAsset } from '../server/static-asset.js';
 
 /** One page's client module; the bundle is built from `src/web/client/pages/<name>.ts`. */
 export const PAGE_MODULES = [
@@ -16,11 +16,7 @@ export const PAGE_MODULES = [
 ] as const;
 export type PageModule = (typeof PAGE_MODULES)[number];
 
-export interface Asset {
-  body: Buffer;
-  contentType: string;
-  etag: string;
-}
+export type Asset = StaticAsset;
 
 /** Bundled client modules and the stylesheet, keyed by URL path under /assets/. */
 export type AssetMap = ReadonlyMap<string, Asset>;
@@ -30,10 +26,7 @@ const STYLE_FILE = projectPath('src', 'web', 'styles', 'app.css');
 /** Where `npm run build` writes the bundles the compiled server serves. */
 export const BUILT_ASSETS_DIR = join(DIST_DIR, 'public', 'assets');
 
-function asset(body: Buffer, contentType: string): Asset {
-  const etag = `"${createHash('sha256').update(body).digest('base64url').slice(0, 22)}"`;
-  return { body, contentType, etag };
-}
+const asset = staticAsset;
 
 let cached: Promise<AssetMap> | undefined;
 

@@ -1,4 +1,5 @@
 import type { FastifyInstance, FastifyPluginAsync } from 'fastify';
+import { sendStaticAsset } from '../server/static-asset.js';
 import { loadAssets } from './assets.js';
 import { compilePages, PAGES } from './pages.js';
 
@@ -20,10 +21,7 @@ export const webRoutes: FastifyPluginAsync = async (app) => {
           error: { code: 'PHL_WEB_ASSET_NOT_FOUND', message: `no asset ${req.params['*']}` },
         });
       }
-      reply.header('etag', found.etag);
-      reply.header('cache-control', 'no-cache');
-      if (req.headers['if-none-match'] === found.etag) return reply.status(304).send();
-      return reply.type(found.contentType).send(found.body);
+      return sendStaticAsset(req, reply, found, 'no-cache');
     },
   );
 

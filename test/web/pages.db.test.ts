@@ -64,6 +64,24 @@ describe('consult screens over HTTP', () => {
     expect(again.statusCode).toBe(304);
   });
 
+  it('serves the handout fonts and stylesheet with an ETag and answers 304 when unchanged', async () => {
+    for (const url of [
+      '/handouts/assets/fonts/arabic-regular.ttf',
+      '/handouts/assets/handout.css',
+    ]) {
+      const first = await ctx.app.inject({ url });
+      expect(first.statusCode, url).toBe(200);
+      expect(first.headers.etag, url).toMatch(/^"[\w-]{22}"$/);
+      expect(first.headers['cache-control'], url).toMatch(/^public, max-age=\d+$/);
+      const again = await ctx.app.inject({
+        url,
+        headers: { 'if-none-match': String(first.headers.etag) },
+      });
+      expect(again.statusCode, url).toBe(304);
+      expect(again.body).toBe('');
+    }
+  });
+
   it('renders every screen for a signed-in user with its own module and no inline code', async () => {
     for (const page of PAGES) {
       const res = await ctx.inject({ url: concrete(page.url) });
