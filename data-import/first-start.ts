@@ -1,12 +1,20 @@
-import type { FirstStartContext } from '../src/server/serve.js';
+import type { Clock } from '../src/clock.js';
+import type { Db } from '../src/db/database.js';
 import { auditImport, SYSTEM_FIRST_START } from '../src/audit/actors.js';
 import { ifct2017 } from './ifct2017.js';
+
+/** What the first-start import needs from the server that runs it. */
+export interface DefaultTableContext {
+  db: Db;
+  clock: Clock;
+  io: { stdout: NodeJS.WritableStream; stderr: NodeJS.WritableStream };
+}
 
 /**
  * First start: with no food table in the database, import the embedded default (IFCT 2017,
  * shipped as an npm package) so the program is useful at once. Does nothing afterwards.
  */
-export async function importDefaultFoodTable(ctx: FirstStartContext): Promise<void> {
+export async function importDefaultFoodTable(ctx: DefaultTableContext): Promise<void> {
   const row = ctx.db.sqlite.prepare('select count(*) as n from food_source').get() as { n: number };
   if (row.n > 0) return;
   const out = ctx.io.stdout;

@@ -58,6 +58,16 @@ export function rowToPlanVersion(r: Selectable<PlanVersionTable>): PlanVersion {
 export class PlanRepository {
   constructor(readonly db: Kysely<DB>) {}
 
+  /** The patient a plan belongs to (for the audit log), or null when there is no such plan. */
+  async patientIdOf(planId: number): Promise<number | null> {
+    const r = await this.db
+      .selectFrom('plan')
+      .select('patient_id')
+      .where('id', '=', planId)
+      .executeTakeFirst();
+    return r?.patient_id ?? null;
+  }
+
   async list(patientId?: number): Promise<PlanHeader[]> {
     let q = this.db.selectFrom('plan').selectAll().orderBy('id');
     if (patientId !== undefined) q = q.where('patient_id', '=', patientId);

@@ -8,6 +8,7 @@ import '../patients/patients.routes.js'; // declares config.patientData for thes
 import { planInputSchema } from './plan.js';
 import { binderSummarySchema, planSummarySchema } from './summary.schema.js';
 import { settingsSource } from './plan-settings-source.js';
+import { PlanRepository } from './plans.repository.js';
 import { PlanService, toPlanVersionJson } from './plans.service.js';
 import { SwapService } from './swaps.service.js';
 import { MAX_SWAPS } from './swaps.js';
@@ -18,12 +19,7 @@ const versionQuery = z.object({ version: z.coerce.number().int().positive().opti
 async function planPatient(db: Db, req: FastifyRequest) {
   const id = Number((req.params as { id?: string }).id);
   if (!Number.isInteger(id)) return null;
-  const r = await db.kysely
-    .selectFrom('plan')
-    .select('patient_id')
-    .where('id', '=', id)
-    .executeTakeFirst();
-  return r?.patient_id ?? null;
+  return new PlanRepository(db.kysely).patientIdOf(id);
 }
 
 export function toPlanListEntry(h: {
