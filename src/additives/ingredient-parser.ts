@@ -347,28 +347,57 @@ interface CationHit {
   idx: number; // token index
 }
 
+/** The folded statement's tokens with bounds-checked access: the rules look left and right. */
+class TokenView {
+  readonly n: number;
+  /** Tokens an additive number already used; the name rules skip them. */
+  readonly consumed: Uint8Array;
+
+  constructor(
+    readonly norm: string,
+    readonly tokens: Token[],
+  ) {
+    this.n = tokens.length;
+    this.consumed = new Uint8Array(tokens.length);
+  }
+
+  tok(i: number): Token | undefined {
+    return i >= 0 && i < this.n ? this.tokens[i] : undefined;
+  }
+
+  at(i: number): Token {
+    return this.tokens[i] as Token;
+  }
+
+  /** The word at i, or '' when i is out of range or not a word. */
+  word(i: number): string {
+    const t = this.tok(i);
+    return t && t.type === 'w' ? t.t : '';
+  }
+}
+
 /** Scans the tokens of a folded statement and returns raw findings in norm offsets. */
 function scan(norm: string, tokens: Token[], hasNumbers: boolean, hasNames: boolean): Raw[] {
+  const v = new TokenView(norm, tokens);
   const raws: Raw[] = [];
-  const consumed = new Uint8Array(tokens.length);
-  const n = tokens.length;
-  const tok = (i: number): Token | undefined => (i >= 0 && i < n ? tokens[i] : undefined);
-  const word = (i: number): string => {
-    const t = tok(i);
-    return t && t.type === 'w' ? t.t : '';
-  };
+  if (hasNumbers) scanNumbers(v, raws);
+  if (hasNames) scanNames(v, raws);
+  return raws;
+}
 
-  // ---- numbers: E 339, E-339(ii), E450iii, INS 451, bare numbers in an additive list
+// ---- numbers: E 339, E-339(ii), E450iii, INS 451, bare numbers in an additive list
+
+function scanNumbers(v: TokenView, raws: Raw[]): void {
   let listOpen = false;
-  for (let i = 0; hasNumbers && i < n; i++) {
-    const t = tokens[i] as Token;
+  for (let i = 0; i < v.n; i++) {
+    const t = v.at(i);
     if (t.type === 'w') {
-      if ((t.t === 'e' || t.t === 'ins') && tok(i + 1)) {
+      if ((t.t === 'e' || t.t === 'ins') && v.tok(i + 1)) {
         let j = i + 1;
-        if (tok(j)?.t === '-') j++;
-        const num = tok(j);
+        if (v.tok(j)?.t === '-') j++;
+        const num = v.tok(j);
         if (num && num.type === 'n' && num.t.length >= 3 && num.t.length <= 4 && num.s - t.e <= 3) {
-          const got = readCode(j, true, i);
+          const got = readCode(v, raws, j, true, i);
           if (got) {
             i = got;
             listOpen = true;
@@ -379,7 +408,7 @@ function scan(norm: string, tokens: Token[], hasNumbers: boolean, hasNames: bool
       if (CONJ.has(t.t)) continue;
       if (listOpen && (t.t === 'and' || t.t === 'or')) continue;
       listOpen = false;
-      const next = tok(i + 1);
+      const next = v.tok(i + 1);
       if (next && (next.t === ':' || next.t === '(' || next.t === '[') && CLASS_WORD_RE.test(t.t)) {
         // "emulsifying salts: 339" / "mineral salts (451, 452)"
         listOpen = true;
@@ -389,7 +418,7 @@ function scan(norm: string, tokens: Token[], hasNumbers: boolean, hasNames: bool
     }
     if (t.type === 'n') {
       if (listOpen && t.t.length >= 3 && t.t.length <= 4) {
-        const got = readCode(i, false, i);
+        const got = readCode(v, raws, i, false, i);
         if (got) {
           i = got;
           continue;
@@ -403,672 +432,669 @@ function scan(norm: string, tokens: Token[], hasNumbers: boolean, hasNames: bool
       listOpen = false;
     if (t.t === ';') listOpen = false;
   }
+}
 
-  /** Reads a number at token j (with sub-number); records a finding; returns the last token index used. */
-  function readCode(j: number, prefixed: boolean, startIdx: number): number | null {
-    const num = tokens[j] as Token;
-    const value = Number(num.t);
-    if (value < 100 || value > 1599) return null;
-    // "vitamin E 450 mg", "E 339 mg": amounts, not additives
-    const before = word(startIdx - 1);
-    if (prefixed && VITAMIN_RE.test(before)) return null;
-    const k = j + 1;
-    const sep = tok(k);
-    if (sep && (sep.t === '.' || sep.t === ',') && sep.s === num.e) {
-      const frac = tok(k + 1);
-      if (frac && frac.type === 'n' && frac.s === sep.e) return null; // a decimal amount "339,5"
-    }
-    if (UNIT_RE.test(word(k)) || tok(k)?.t === '%') return null;
-    let sub: string | null = null;
-    let last = j;
-    const a = tok(k);
-    if (a && a.t === '(' && ROMAN.has(word(k + 1)) && tok(k + 2)?.t === ')') {
-      sub = word(k + 1);
-      last = k + 2;
-    } else if (a && a.type === 'w' && ROMAN.has(a.t) && a.s - num.e <= 1) {
-      // "E450iii", "E 450 i" (a separate roman numeral, not the start of a word)
-      const after = tok(k + 1);
-      if (!(after && (after.t === '.' || after.t === "'") && tok(k + 2)?.type === 'w')) {
-        sub = a.t;
-        last = k;
-      }
-    }
-    const family = num.t;
-    for (let q = startIdx; q <= last; q++) consumed[q] = 1;
-    if (!PHOSPHATE_FAMILIES.has(family)) return last; // another additive: keeps the list going
-    const exact = sub ? findByNumber(family, sub) : undefined;
-    const entry = exact ?? findByNumber(family);
-    if (!entry) return last;
-    const label = prefixed
-      ? norm.slice((tokens[startIdx] as Token).s, (tokens[last] as Token).e)
-      : num.t;
-    let how = prefixed ? `number "${label}"` : `number ${num.t} in an additive list`;
-    if (sub && !exact) how += `; sub-number (${sub}) is not in the catalogue, read as the family`;
-    raws.push({
-      entry,
-      s: (tokens[startIdx] as Token).s,
-      e: (tokens[last] as Token).e,
-      how,
-      byNumber: true,
-    });
-    return last;
+/** Reads a number at token j (with sub-number); records a finding; returns the last token index used. */
+function readCode(
+  v: TokenView,
+  raws: Raw[],
+  j: number,
+  prefixed: boolean,
+  startIdx: number,
+): number | null {
+  const num = v.at(j);
+  const value = Number(num.t);
+  if (value < 100 || value > 1599) return null;
+  // "vitamin E 450 mg", "E 339 mg": amounts, not additives
+  if (prefixed && VITAMIN_RE.test(v.word(startIdx - 1))) return null;
+  const k = j + 1;
+  const sep = v.tok(k);
+  if (sep && (sep.t === '.' || sep.t === ',') && sep.s === num.e) {
+    const frac = v.tok(k + 1);
+    if (frac && frac.type === 'n' && frac.s === sep.e) return null; // a decimal amount "339,5"
   }
+  if (UNIT_RE.test(v.word(k)) || v.tok(k)?.t === '%') return null;
+  const { sub, last } = readSubNumber(v, j, k);
+  const family = num.t;
+  for (let q = startIdx; q <= last; q++) v.consumed[q] = 1;
+  if (!PHOSPHATE_FAMILIES.has(family)) return last; // another additive: keeps the list going
+  const exact = sub ? findByNumber(family, sub) : undefined;
+  const entry = exact ?? findByNumber(family);
+  if (!entry) return last;
+  const label = prefixed ? v.norm.slice(v.at(startIdx).s, v.at(last).e) : num.t;
+  let how = prefixed ? `number "${label}"` : `number ${num.t} in an additive list`;
+  if (sub && !exact) how += `; sub-number (${sub}) is not in the catalogue, read as the family`;
+  raws.push({ entry, s: v.at(startIdx).s, e: v.at(last).e, how, byNumber: true });
+  return last;
+}
 
-  // ---- names
-  for (let i = 0; hasNames && i < n; i++) {
-    if (consumed[i]) continue;
-    const t = tokens[i] as Token;
-    if (t.type !== 'w') continue;
-    const w = t.t;
-    const c0 = w.charCodeAt(0);
-    // Cheap gate: every name we match contains one of these letters sequences.
-    if (!(
-      w.includes('phos') ||
-      w.includes('fos') ||
-      w.includes('osph') ||
-      w.includes('ospat') ||
-      w.includes('lec') ||
-      w.includes('lez') ||
-      w.includes('guan') ||
-      w.includes('inosin') ||
-      w.includes('ribonu') ||
-      w.includes('sapp') ||
-      w.includes('stpp') ||
-      w.includes('shmp') ||
-      w.includes('tspp') ||
-      w.includes('salp') ||
-      w.includes('hosp') ||
-      (c0 === 105 && w === 'i')
-    ))
-      continue;
+/** A roman sub-number after the number at j ("(ii)", "iii"), with the last token it used. */
+function readSubNumber(v: TokenView, j: number, k: number): { sub: string | null; last: number } {
+  const num = v.at(j);
+  const a = v.tok(k);
+  if (a && a.t === '(' && ROMAN.has(v.word(k + 1)) && v.tok(k + 2)?.t === ')') {
+    return { sub: v.word(k + 1), last: k + 2 };
+  }
+  if (a && a.type === 'w' && ROMAN.has(a.t) && a.s - num.e <= 1) {
+    // "E450iii", "E 450 i" (a separate roman numeral, not the start of a word)
+    const after = v.tok(k + 1);
+    if (!(after && (after.t === '.' || after.t === "'") && v.tok(k + 2)?.type === 'w')) {
+      return { sub: a.t, last: k };
+    }
+  }
+  return { sub: null, last: j };
+}
 
-    const abbr = ABBREVIATIONS.get(w);
-    if (abbr) {
-      raws.push({
-        entry: abbr,
-        s: t.s,
-        e: t.e,
-        how: `abbreviation "${w.toUpperCase()}"`,
-        byNumber: false,
-      });
-      continue;
-    }
-    // "I+G"
-    if (w === 'i' && tok(i + 1)?.t === '+' && word(i + 2) === 'g') {
-      raws.push({
-        entry: entryOrFamily('635', null) as AdditiveEntry,
-        s: t.s,
-        e: (tokens[i + 2] as Token).e,
-        how: 'name "I+G"',
-        byNumber: false,
-      });
-      i += 2;
-      continue;
-    }
-    if (ACID_COMPOUND_RE.test(w)) {
-      raws.push({
-        entry: entryOrFamily('338', null) as AdditiveEntry,
-        s: t.s,
-        e: t.e,
-        how: `name "${w}"`,
-        byNumber: false,
-      });
-      continue;
-    }
-    const acidAdj = ACID_ADJ_RE.exec(w);
-    if (acidAdj) {
-      let s = t.s;
-      let e = t.e;
-      let ok = false;
-      if (ACID_WORD_RE.test(word(i + 1))) {
-        e = (tokens[i + 1] as Token).e;
-        ok = true;
-      }
-      if (ACID_WORD_RE.test(word(i - 1))) {
-        s = (tokens[i - 1] as Token).s;
-        ok = true;
-      } else if (tok(i - 1)?.t === '-' && word(i - 2) === 'ortho') {
-        s = (tokens[i - 2] as Token).s;
-        if (ACID_WORD_RE.test(word(i - 3))) {
-          s = (tokens[i - 3] as Token).s;
-          ok = true;
-        }
-      }
-      if (ok) {
-        const typo = /ous$|us$/.test(w) || !/phosph|fosf/.test(w);
-        raws.push({
-          entry: entryOrFamily('338', null) as AdditiveEntry,
-          s,
-          e,
-          how: typo
-            ? `name "${norm.slice(s, e)}" (misspelt; read as phosphoric acid)`
-            : `name "${norm.slice(s, e)}"`,
-          byNumber: false,
-        });
-        if (ACID_WORD_RE.test(word(i + 1))) i++;
-      }
-      continue;
-    }
-    if (LECITHIN_RE.test(w)) {
-      raws.push({
-        entry: entryOrFamily('322', null) as AdditiveEntry,
-        s: t.s,
-        e: t.e,
-        how: `name "${w}"`,
-        byNumber: false,
-      });
-      continue;
-    }
-    const glycero = GLYCERO_RE.exec(w);
-    if (glycero) {
-      const pre = glycero[1] ?? glycero[4] ?? '';
-      let cation = pre ? cationOf(pre) : null;
-      let s = t.s;
-      let e = t.e;
-      if (!cation) {
-        const left = CATION_NOUN_RE.exec(word(i - 1));
-        if (left) {
-          cation = cationOf(left[2] as string);
-          s = (tokens[i - 1] as Token).s;
-        } else if (PREP.has(word(i + 1))) {
-          const right = CATION_NOUN_ROMANCE_RE.exec(word(i + 2));
-          if (right) {
-            cation = cationOf(right[2] as string);
-            e = (tokens[i + 2] as Token).e;
-          }
-        }
-      }
-      const code = cation === 'Mg' ? 'magnesium glycerophosphate' : 'calcium glycerophosphate';
-      raws.push({
-        entry: byCodeStrict(code),
-        s,
-        e,
-        how:
-          cation === 'Mg' || cation === 'Ca'
-            ? `name "${norm.slice(s, e)}"`
-            : `name "${norm.slice(s, e)}" (salt not named; read as the calcium salt)`,
-        byNumber: false,
-      });
-      continue;
-    }
-    const nucleo = NUCLEOTIDE_RE.exec(w);
-    if (nucleo) {
-      const isAcid =
-        /ic|ique|ico|saure|saeure/.test(nucleo[4] ?? '') ||
-        ACID_WORD_RE.test(word(i - 1)) ||
-        ACID_WORD_RE.test(word(i + 1));
-      let cation: Cation | null = nucleo[2] ? cationOf(nucleo[2]) : null;
-      let s = t.s;
-      let e = t.e;
-      if (!cation) {
-        const left = CATION_NOUN_RE.exec(word(i - 1));
-        const adj = CATION_ADJ_RE.exec(word(i + 1));
-        if (left) {
-          cation = cationOf(left[2] as string);
-          s = (tokens[i - 1] as Token).s;
-        } else if (adj) {
-          cation = adj[2] ? cationOf(adj[2]) : null;
-          e = (tokens[i + 1] as Token).e;
-        } else if (PREP.has(word(i + 1))) {
-          const right = CATION_NOUN_ROMANCE_RE.exec(word(i + 2));
-          if (right) {
-            cation = cationOf(right[2] as string);
-            e = (tokens[i + 2] as Token).e;
-          }
-        }
-      }
-      if (ACID_WORD_RE.test(word(i - 1))) s = (tokens[i - 1] as Token).s;
-      if (isAcid && ACID_WORD_RE.test(word(i + 1))) e = (tokens[i + 1] as Token).e;
-      const guan = (nucleo[3] as string).startsWith('guan');
-      const base = guan ? 626 : 630;
-      const offset = isAcid ? 0 : cation === 'K' ? 2 : cation === 'Ca' ? 3 : 1;
-      const guess = !isAcid && cation === null;
-      raws.push({
-        entry: entryOrFamily(String(base + offset), null) as AdditiveEntry,
-        s,
-        e,
-        how: `name "${norm.slice(s, e)}"${guess ? ' (salt not named; read as the disodium salt)' : ''}`,
-        byNumber: false,
-      });
-      continue;
-    }
-    if (RIBONUCLEOTIDE_RE.test(w)) {
-      let s = t.s;
-      let e = t.e;
-      let calcium = w.startsWith('calcium');
-      // "disodium 5'-ribonucleotides", "5'-ribonucleotides de calcium"
-      let j = i - 1;
-      while (j >= 0 && (tok(j)?.t === '-' || tok(j)?.t === "'" || tok(j)?.t === '5')) j--;
-      const left = CATION_NOUN_RE.exec(word(j));
-      if (left) {
-        calcium = left[2] === 'calcium';
-        s = (tokens[j] as Token).s;
-      } else if (j < i - 1) {
-        s = (tokens[j + 1] as Token).s;
-      }
-      const adj = CATION_ADJ_RE.exec(word(i + 1));
-      if (adj) {
-        calcium = adj[2] === 'calc';
-        e = (tokens[i + 1] as Token).e;
-      } else if (PREP.has(word(i + 1)) && CATION_NOUN_ROMANCE_RE.test(word(i + 2))) {
-        calcium = /calc/.test(word(i + 2));
-        e = (tokens[i + 2] as Token).e;
-      }
-      raws.push({
-        entry: entryOrFamily(calcium ? '634' : '635', null) as AdditiveEntry,
-        s,
-        e,
-        how: `name "${norm.slice(s, e)}"`,
-        byNumber: false,
-      });
-      continue;
-    }
-    const phosphatide = PHOSPHATIDE_RE.exec(w);
-    if (phosphatide) {
-      const ammoniumInWord = w.startsWith('ammonium');
-      const leftAmm = /^(ammonium)$/.test(word(i - 1));
-      let rightAmm = false;
-      let e = t.e;
-      if (PREP.has(word(i + 1))) {
-        let k = i + 2;
-        if (tok(k)?.t === "'") k++;
-        if (/^(ammonium|amonio|ammonio)$/.test(word(k))) {
-          rightAmm = true;
-          e = (tokens[k] as Token).e;
-        }
-      } else if (
-        tok(i + 1)?.t === "'" &&
-        PREP.has(word(i - 0)) === false &&
-        /^(ammonium|amonio|ammonio)$/.test(word(i + 2))
-      ) {
-        rightAmm = true;
-        e = (tokens[i + 2] as Token).e;
-      }
-      if (ammoniumInWord || leftAmm || rightAmm) {
-        raws.push({
-          entry: entryOrFamily('442', null) as AdditiveEntry,
-          s: leftAmm ? (tokens[i - 1] as Token).s : t.s,
-          e,
-          how: 'name "ammonium phosphatides"',
-          byNumber: false,
-        });
-      }
-      continue;
-    }
-    if (STARCH_COMPOUND_RE.test(w)) {
-      let family = w.startsWith('hydroxypropyl')
-        ? '1442'
-        : /^(hydroxypropyl)?mono/.test(w)
-          ? '1410'
-          : '1412';
-      let s = t.s;
-      for (const [re, fam] of STARCH_QUALIFIER)
-        if (re.test(word(i - 1))) {
-          family = fam;
-          s = (tokens[i - 1] as Token).s;
-        }
-      raws.push({
-        entry: entryOrFamily(family, null) as AdditiveEntry,
-        s,
-        e: t.e,
-        how: `name "${norm.slice(s, t.e)}"`,
-        byNumber: false,
-      });
-      continue;
-    }
+// ---- names: a table of rules tried in order on each word that may name a phosphate
 
-    const compound = PHOS_COMPOUND_RE.exec(w);
-    const stem = compound ? null : PHOS_STEM_RE.exec(w);
-    if (!compound && !stem) continue;
+/** What a name rule read: its findings (maybe none) and the last token index the phrase used. */
+interface NameMatch {
+  raws: Raw[];
+  last: number;
+}
 
-    // Left context.
-    let s = t.s;
-    let e = t.e;
-    const cations: CationHit[] = [];
-    let acid = false;
-    let basic = false;
-    let hydrogen: number | null = null;
-    let starchFamily: string | null = null;
-    let starchQualifier: string | null = null;
-    let conjunction = false;
-    let riboflavin = false;
-    let organicEster = false;
-    let anion: Anion;
+/** Reads the phrase around word i, or returns null when the word is not of the rule's kind. */
+type NameRule = (v: TokenView, i: number, w: string) => NameMatch | null;
 
-    if (compound) {
-      const m = compound[1] ? (MULT[compound[1]] ?? null) : null;
-      cations.push({ cation: cationOf(compound[2] as string) as Cation, mult: m, idx: i });
-      if (compound[3])
-        cations.push({ cation: cationOf(compound[3]) as Cation, mult: null, idx: i });
-      if (compound[4]) hydrogen = compound[4] === 'dihydrogen' ? 2 : 1;
-      anion = anionOf(compound[5]);
-    } else {
-      const prefix = (stem as RegExpExecArray)[1];
-      if (prefix && /hydrogeno|hidrogeno|idrogeno/.test(prefix)) {
-        hydrogen = prefix.startsWith('di') ? 2 : 1;
-        anion = 'ortho';
-        if (hydrogen === 1 && tok(i - 1)?.t === '-' && word(i - 2) === 'di') {
-          // Portuguese "di-hidrogenofosfato"
-          hydrogen = 2;
-          s = (tokens[i - 2] as Token).s;
-        }
-      } else {
-        anion = anionOf(prefix);
-      }
-    }
+function nameRaw(entry: AdditiveEntry, s: number, e: number, how: string): Raw {
+  return { entry, s, e, how, byNumber: false };
+}
 
-    let j = i - 1;
-    let pendingConj = false;
-    while (j >= 0 && i - j <= 8) {
-      const lt = tokens[j] as Token;
-      if (lt.t === '-' || lt.t === "'") {
-        j--;
-        continue;
-      }
-      if (lt.t === '5' && (tok(j + 1)?.t === "'" || tok(j - 1)?.type === 'w')) {
-        j--;
-        continue;
-      }
-      if (lt.t === ')' && ROMAN.has(word(j - 1)) && tok(j - 2)?.t === '(') {
-        // "Eisen(III)-diphosphat", "iron(III) phosphate"
-        j -= 3;
-        continue;
-      }
-      if (lt.type !== 'w' && lt.t !== ',' && lt.t !== '/' && lt.t !== '&' && lt.t !== '+') break;
-      const lw = lt.t;
-      const cn = CATION_NOUN_RE.exec(lw);
-      if (cn) {
-        let mult = cn[1] ? (MULT[cn[1]] ?? null) : null;
-        let at = j;
-        // "tri-calcium phosphate", "di-sodium phosphate"
-        if (mult === null && tok(j - 1)?.t === '-' && MULT[word(j - 2)] !== undefined) {
-          mult = MULT[word(j - 2)] ?? null;
-          at = j - 2;
-        }
-        cations.push({ cation: cationOf(cn[2] as string) as Cation, mult, idx: j });
-        if (pendingConj) conjunction = true;
-        pendingConj = false;
-        s = (tokens[at] as Token).s;
-        j = at - 1;
-        continue;
-      }
-      if (lw === 'acid' || lw === 'acidic' || lw === 'saures' || lw === 'saure') {
-        acid = true;
-        s = lt.s;
-        j--;
-        continue;
-      }
-      if (lw === 'basic' || lw === 'basisches' || lw === 'basisch') {
-        basic = true;
-        s = lt.s;
-        j--;
-        continue;
-      }
-      if (lw === 'dihydrogen' || lw === 'hydrogen') {
-        hydrogen = lw === 'dihydrogen' ? 2 : 1;
-        s = lt.s;
-        j--;
-        continue;
-      }
-      const st = STARCH_RE.exec(lw);
-      if (st) {
-        starchFamily = st[1] === 'mono' ? '1410' : '1412';
-        s = lt.s;
-        j--;
-        continue;
-      }
-      const q = STARCH_QUALIFIER.find(([re]) => re.test(lw));
-      if (q && (starchFamily || STARCH_RE.test(word(j + 1)))) {
-        starchQualifier = q[1];
-        s = lt.s;
-        j--;
-        continue;
-      }
-      if (RIBOFLAVIN_RE.test(lw)) {
-        riboflavin = true;
-        s = lt.s;
-        break;
-      }
-      if (ORGANIC_ESTER_RE.test(lw)) {
-        organicEster = true;
-        break;
-      }
-      if (CONJ.has(lw) && cations.length > 0) {
-        // "sodium and/or potassium phosphates", "sodium, potassium phosphates"
-        let q = j - 1;
-        while (q >= 0 && CONJ.has((tokens[q] as Token).t)) q--;
-        if (q >= 0 && CATION_NOUN_RE.test(word(q))) {
-          pendingConj = true;
-          j = q;
-          continue;
-        }
-      }
+function family(code: string): AdditiveEntry {
+  return entryOrFamily(code, null) as AdditiveEntry;
+}
+
+/** Cheap gate: every name the rules match contains one of these letter sequences. */
+const NAME_GATE = [
+  'phos',
+  'fos',
+  'osph',
+  'ospat',
+  'lec',
+  'lez',
+  'guan',
+  'inosin',
+  'ribonu',
+  'sapp',
+  'stpp',
+  'shmp',
+  'tspp',
+  'salp',
+  'hosp',
+];
+
+function mayNameAdditive(w: string): boolean {
+  return w === 'i' || NAME_GATE.some((g) => w.includes(g));
+}
+
+function scanNames(v: TokenView, raws: Raw[]): void {
+  for (let i = 0; i < v.n; i++) {
+    if (v.consumed[i]) continue;
+    const t = v.at(i);
+    if (t.type !== 'w' || !mayNameAdditive(t.t)) continue;
+    for (const rule of NAME_RULES) {
+      const m = rule(v, i, t.t);
+      if (!m) continue;
+      raws.push(...m.raws);
+      i = m.last;
       break;
     }
+  }
+}
 
-    // Right context (Romance word order): "phosphate disodique", "fosfato de sodio y aluminio".
-    let k = i + 1;
-    const rightLimit = Math.min(n, i + 10);
-    let pendingRightConj = false;
-    while (k < rightLimit) {
-      const rt = tokens[k] as Token;
-      const rw = rt.type === 'w' ? rt.t : '';
-      const adj = rw ? CATION_ADJ_RE.exec(rw) : null;
-      if (
-        adj &&
-        (cations.length === 0 ||
-          pendingRightConj ||
-          cations.every((c) => c.idx < i) === false ||
-          true)
-      ) {
-        const stemText = (adj[2] ?? '').replace(/^s(?=sod)/, '');
-        const cat = adj[5] ? 'Fe' : cationOf(stemText);
-        if (cat) {
-          cations.push({ cation: cat, mult: adj[1] ? (MULT[adj[1]] ?? null) : null, idx: k });
-          if (pendingRightConj) conjunction = true;
-          pendingRightConj = false;
-          e = rt.e;
-          k++;
-          continue;
-        }
+const abbreviationRule: NameRule = (v, i, w) => {
+  const abbr = ABBREVIATIONS.get(w);
+  if (!abbr) return null;
+  const t = v.at(i);
+  return { raws: [nameRaw(abbr, t.s, t.e, `abbreviation "${w.toUpperCase()}"`)], last: i };
+};
+
+/** "I+G" (disodium 5'-ribonucleotides). */
+const iPlusGRule: NameRule = (v, i, w) => {
+  if (!(w === 'i' && v.tok(i + 1)?.t === '+' && v.word(i + 2) === 'g')) return null;
+  return { raws: [nameRaw(family('635'), v.at(i).s, v.at(i + 2).e, 'name "I+G"')], last: i + 2 };
+};
+
+/** One-word phosphoric acid ("orthophosphoric"-style compounds). */
+const acidCompoundRule: NameRule = (v, i, w) => {
+  if (!ACID_COMPOUND_RE.test(w)) return null;
+  const t = v.at(i);
+  return { raws: [nameRaw(family('338'), t.s, t.e, `name "${w}"`)], last: i };
+};
+
+/** "phosphoric acid", "acide phosphorique", "ácido orto-fosfórico", misspellings. */
+const acidAdjectiveRule: NameRule = (v, i, w) => {
+  if (!ACID_ADJ_RE.test(w)) return null;
+  const t = v.at(i);
+  let s = t.s;
+  let e = t.e;
+  let ok = false;
+  if (ACID_WORD_RE.test(v.word(i + 1))) {
+    e = v.at(i + 1).e;
+    ok = true;
+  }
+  if (ACID_WORD_RE.test(v.word(i - 1))) {
+    s = v.at(i - 1).s;
+    ok = true;
+  } else if (v.tok(i - 1)?.t === '-' && v.word(i - 2) === 'ortho') {
+    s = v.at(i - 2).s;
+    if (ACID_WORD_RE.test(v.word(i - 3))) {
+      s = v.at(i - 3).s;
+      ok = true;
+    }
+  }
+  // The adjective alone names nothing; it still ends the search for this word.
+  if (!ok) return { raws: [], last: i };
+  const typo = /ous$|us$/.test(w) || !/phosph|fosf/.test(w);
+  const text = v.norm.slice(s, e);
+  const how = typo ? `name "${text}" (misspelt; read as phosphoric acid)` : `name "${text}"`;
+  const last = ACID_WORD_RE.test(v.word(i + 1)) ? i + 1 : i;
+  return { raws: [nameRaw(family('338'), s, e, how)], last };
+};
+
+const lecithinRule: NameRule = (v, i, w) => {
+  if (!LECITHIN_RE.test(w)) return null;
+  const t = v.at(i);
+  return { raws: [nameRaw(family('322'), t.s, t.e, `name "${w}"`)], last: i };
+};
+
+/** A cation named as a noun just left ("calcium glycerophosphate") or after a preposition. */
+function cationAround(v: TokenView, i: number): { cation: Cation | null; s: number; e: number } {
+  const t = v.at(i);
+  const left = CATION_NOUN_RE.exec(v.word(i - 1));
+  if (left) return { cation: cationOf(left[2] as string), s: v.at(i - 1).s, e: t.e };
+  if (PREP.has(v.word(i + 1))) {
+    const right = CATION_NOUN_ROMANCE_RE.exec(v.word(i + 2));
+    if (right) return { cation: cationOf(right[2] as string), s: t.s, e: v.at(i + 2).e };
+  }
+  return { cation: null, s: t.s, e: t.e };
+}
+
+const glycerophosphateRule: NameRule = (v, i, w) => {
+  const glycero = GLYCERO_RE.exec(w);
+  if (!glycero) return null;
+  const pre = glycero[1] ?? glycero[4] ?? '';
+  const inWord = pre ? cationOf(pre) : null;
+  const t = v.at(i);
+  const { cation, s, e } = inWord ? { cation: inWord, s: t.s, e: t.e } : cationAround(v, i);
+  const code = cation === 'Mg' ? 'magnesium glycerophosphate' : 'calcium glycerophosphate';
+  const text = v.norm.slice(s, e);
+  const how =
+    cation === 'Mg' || cation === 'Ca'
+      ? `name "${text}"`
+      : `name "${text}" (salt not named; read as the calcium salt)`;
+  return { raws: [nameRaw(byCodeStrict(code), s, e, how)], last: i };
+};
+
+/** Guanylates and inosinates (E 626-633): the acid or its sodium, potassium or calcium salt. */
+const nucleotideRule: NameRule = (v, i, w) => {
+  const nucleo = NUCLEOTIDE_RE.exec(w);
+  if (!nucleo) return null;
+  const isAcid =
+    /ic|ique|ico|saure|saeure/.test(nucleo[4] ?? '') ||
+    ACID_WORD_RE.test(v.word(i - 1)) ||
+    ACID_WORD_RE.test(v.word(i + 1));
+  let cation: Cation | null = nucleo[2] ? cationOf(nucleo[2]) : null;
+  const t = v.at(i);
+  let s = t.s;
+  let e = t.e;
+  if (!cation) {
+    const left = CATION_NOUN_RE.exec(v.word(i - 1));
+    const adj = CATION_ADJ_RE.exec(v.word(i + 1));
+    if (left) {
+      cation = cationOf(left[2] as string);
+      s = v.at(i - 1).s;
+    } else if (adj) {
+      cation = adj[2] ? cationOf(adj[2]) : null;
+      e = v.at(i + 1).e;
+    } else if (PREP.has(v.word(i + 1))) {
+      const right = CATION_NOUN_ROMANCE_RE.exec(v.word(i + 2));
+      if (right) {
+        cation = cationOf(right[2] as string);
+        e = v.at(i + 2).e;
       }
-      const basicity = /^(mono|di|tri)basic$/.exec(rw);
-      if (basicity && cations.length > 0) {
-        // pharmacopoeia style: "sodium phosphate, dibasic", "potassium phosphate monobasic"
-        const m = MULT[basicity[1] as string] ?? null;
-        for (const c of cations) if (c.mult === null) c.mult = m;
-        e = rt.e;
+    }
+  }
+  if (ACID_WORD_RE.test(v.word(i - 1))) s = v.at(i - 1).s;
+  if (isAcid && ACID_WORD_RE.test(v.word(i + 1))) e = v.at(i + 1).e;
+  const base = (nucleo[3] as string).startsWith('guan') ? 626 : 630;
+  const offset = isAcid ? 0 : cation === 'K' ? 2 : cation === 'Ca' ? 3 : 1;
+  const guess = !isAcid && cation === null;
+  const how = `name "${v.norm.slice(s, e)}"${guess ? ' (salt not named; read as the disodium salt)' : ''}`;
+  return { raws: [nameRaw(family(String(base + offset)), s, e, how)], last: i };
+};
+
+/** "disodium 5'-ribonucleotides", "5'-ribonucleotides de calcium" (E 634, E 635). */
+const ribonucleotideRule: NameRule = (v, i, w) => {
+  if (!RIBONUCLEOTIDE_RE.test(w)) return null;
+  const t = v.at(i);
+  let s = t.s;
+  let e = t.e;
+  let calcium = w.startsWith('calcium');
+  let j = i - 1;
+  while (j >= 0 && (v.tok(j)?.t === '-' || v.tok(j)?.t === "'" || v.tok(j)?.t === '5')) j--;
+  const left = CATION_NOUN_RE.exec(v.word(j));
+  if (left) {
+    calcium = left[2] === 'calcium';
+    s = v.at(j).s;
+  } else if (j < i - 1) {
+    s = v.at(j + 1).s;
+  }
+  const adj = CATION_ADJ_RE.exec(v.word(i + 1));
+  if (adj) {
+    calcium = adj[2] === 'calc';
+    e = v.at(i + 1).e;
+  } else if (PREP.has(v.word(i + 1)) && CATION_NOUN_ROMANCE_RE.test(v.word(i + 2))) {
+    calcium = /calc/.test(v.word(i + 2));
+    e = v.at(i + 2).e;
+  }
+  const how = `name "${v.norm.slice(s, e)}"`;
+  return { raws: [nameRaw(family(calcium ? '634' : '635'), s, e, how)], last: i };
+};
+
+const AMMONIUM_WORD_RE = /^(ammonium|amonio|ammonio)$/;
+
+/** Ammonium phosphatides (E 442); other phosphatides are not additives and end the search. */
+const phosphatideRule: NameRule = (v, i, w) => {
+  if (!PHOSPHATIDE_RE.test(w)) return null;
+  const t = v.at(i);
+  const leftAmm = /^(ammonium)$/.test(v.word(i - 1));
+  let rightAmm = false;
+  let e = t.e;
+  if (PREP.has(v.word(i + 1))) {
+    let k = i + 2;
+    if (v.tok(k)?.t === "'") k++;
+    if (AMMONIUM_WORD_RE.test(v.word(k))) {
+      rightAmm = true;
+      e = v.at(k).e;
+    }
+  } else if (v.tok(i + 1)?.t === "'" && AMMONIUM_WORD_RE.test(v.word(i + 2))) {
+    rightAmm = true;
+    e = v.at(i + 2).e;
+  }
+  if (!(w.startsWith('ammonium') || leftAmm || rightAmm)) return { raws: [], last: i };
+  const s = leftAmm ? v.at(i - 1).s : t.s;
+  return { raws: [nameRaw(family('442'), s, e, 'name "ammonium phosphatides"')], last: i };
+};
+
+/** One-word modified starches ("distarchphosphate", "hydroxypropyldistärkephosphat"). */
+const starchCompoundRule: NameRule = (v, i, w) => {
+  if (!STARCH_COMPOUND_RE.test(w)) return null;
+  let fam = w.startsWith('hydroxypropyl')
+    ? '1442'
+    : /^(hydroxypropyl)?mono/.test(w)
+      ? '1410'
+      : '1412';
+  const t = v.at(i);
+  let s = t.s;
+  for (const [re, qualified] of STARCH_QUALIFIER)
+    if (re.test(v.word(i - 1))) {
+      fam = qualified;
+      s = v.at(i - 1).s;
+    }
+  return { raws: [nameRaw(family(fam), s, t.e, `name "${v.norm.slice(s, t.e)}"`)], last: i };
+};
+
+/** What the words around a phosphate name say: cations, acidity, starch, other esters. */
+interface SaltPhrase {
+  s: number;
+  e: number;
+  cations: CationHit[];
+  acid: boolean;
+  basic: boolean;
+  hydrogen: number | null;
+  starchFamily: string | null;
+  starchQualifier: string | null;
+  conjunction: boolean;
+  riboflavin: boolean;
+  organicEster: boolean;
+  anion: Anion;
+}
+
+/** Phosphate salts and the bare word "phosphate", in the six label languages' word orders. */
+const phosphateSaltRule: NameRule = (v, i, w) => {
+  const compound = PHOS_COMPOUND_RE.exec(w);
+  const stem = compound ? null : PHOS_STEM_RE.exec(w);
+  if (!compound && !stem) return null;
+  const p = saltPhraseFromWord(v, i, compound, stem);
+  readLeftContext(v, i, p);
+  readRightContext(v, i, p);
+  return saltFindings(v, i, p);
+};
+
+function saltPhraseFromWord(
+  v: TokenView,
+  i: number,
+  compound: RegExpExecArray | null,
+  stem: RegExpExecArray | null,
+): SaltPhrase {
+  const t = v.at(i);
+  const p: SaltPhrase = {
+    s: t.s,
+    e: t.e,
+    cations: [],
+    acid: false,
+    basic: false,
+    hydrogen: null,
+    starchFamily: null,
+    starchQualifier: null,
+    conjunction: false,
+    riboflavin: false,
+    organicEster: false,
+    anion: 'ortho',
+  };
+  if (compound) {
+    const m = compound[1] ? (MULT[compound[1]] ?? null) : null;
+    p.cations.push({ cation: cationOf(compound[2] as string) as Cation, mult: m, idx: i });
+    if (compound[3])
+      p.cations.push({ cation: cationOf(compound[3]) as Cation, mult: null, idx: i });
+    if (compound[4]) p.hydrogen = compound[4] === 'dihydrogen' ? 2 : 1;
+    p.anion = anionOf(compound[5]);
+    return p;
+  }
+  const prefix = (stem as RegExpExecArray)[1];
+  if (prefix && /hydrogeno|hidrogeno|idrogeno/.test(prefix)) {
+    p.hydrogen = prefix.startsWith('di') ? 2 : 1;
+    p.anion = 'ortho';
+    if (p.hydrogen === 1 && v.tok(i - 1)?.t === '-' && v.word(i - 2) === 'di') {
+      // Portuguese "di-hidrogenofosfato"
+      p.hydrogen = 2;
+      p.s = v.at(i - 2).s;
+    }
+  } else {
+    p.anion = anionOf(prefix);
+  }
+  return p;
+}
+
+/** Words left of the phosphate (English and German order): "tri-calcium", "acid", "distarch". */
+function readLeftContext(v: TokenView, i: number, p: SaltPhrase): void {
+  let j = i - 1;
+  let pendingConj = false;
+  while (j >= 0 && i - j <= 8) {
+    const lt = v.at(j);
+    if (lt.t === '-' || lt.t === "'") {
+      j--;
+      continue;
+    }
+    if (lt.t === '5' && (v.tok(j + 1)?.t === "'" || v.tok(j - 1)?.type === 'w')) {
+      j--;
+      continue;
+    }
+    if (lt.t === ')' && ROMAN.has(v.word(j - 1)) && v.tok(j - 2)?.t === '(') {
+      // "Eisen(III)-diphosphat", "iron(III) phosphate"
+      j -= 3;
+      continue;
+    }
+    if (lt.type !== 'w' && lt.t !== ',' && lt.t !== '/' && lt.t !== '&' && lt.t !== '+') break;
+    const lw = lt.t;
+    const cn = CATION_NOUN_RE.exec(lw);
+    if (cn) {
+      let mult = cn[1] ? (MULT[cn[1]] ?? null) : null;
+      let at = j;
+      // "tri-calcium phosphate", "di-sodium phosphate"
+      if (mult === null && v.tok(j - 1)?.t === '-' && MULT[v.word(j - 2)] !== undefined) {
+        mult = MULT[v.word(j - 2)] ?? null;
+        at = j - 2;
+      }
+      p.cations.push({ cation: cationOf(cn[2] as string) as Cation, mult, idx: j });
+      if (pendingConj) p.conjunction = true;
+      pendingConj = false;
+      p.s = v.at(at).s;
+      j = at - 1;
+      continue;
+    }
+    const marker = leftMarker(v, j, lw, p);
+    if (marker === 'next') {
+      p.s = lt.s;
+      j--;
+      continue;
+    }
+    if (marker === 'stop') break;
+    if (CONJ.has(lw) && p.cations.length > 0) {
+      // "sodium and/or potassium phosphates", "sodium, potassium phosphates"
+      let q = j - 1;
+      while (q >= 0 && CONJ.has(v.at(q).t)) q--;
+      if (q >= 0 && CATION_NOUN_RE.test(v.word(q))) {
+        pendingConj = true;
+        j = q;
+        continue;
+      }
+    }
+    break;
+  }
+}
+
+/**
+ * One left-hand word that qualifies the phrase: records it and answers 'next' (keep reading
+ * left), 'stop' (a word that ends the phrase: riboflavin, an organic ester) or null (not one).
+ */
+function leftMarker(v: TokenView, j: number, lw: string, p: SaltPhrase): 'next' | 'stop' | null {
+  if (lw === 'acid' || lw === 'acidic' || lw === 'saures' || lw === 'saure') {
+    p.acid = true;
+    return 'next';
+  }
+  if (lw === 'basic' || lw === 'basisches' || lw === 'basisch') {
+    p.basic = true;
+    return 'next';
+  }
+  if (lw === 'dihydrogen' || lw === 'hydrogen') {
+    p.hydrogen = lw === 'dihydrogen' ? 2 : 1;
+    return 'next';
+  }
+  const st = STARCH_RE.exec(lw);
+  if (st) {
+    p.starchFamily = st[1] === 'mono' ? '1410' : '1412';
+    return 'next';
+  }
+  const q = STARCH_QUALIFIER.find(([re]) => re.test(lw));
+  if (q && (p.starchFamily || STARCH_RE.test(v.word(j + 1)))) {
+    p.starchQualifier = q[1];
+    return 'next';
+  }
+  if (RIBOFLAVIN_RE.test(lw)) {
+    p.riboflavin = true;
+    p.s = v.at(j).s;
+    return 'stop';
+  }
+  if (ORGANIC_ESTER_RE.test(lw)) {
+    p.organicEster = true;
+    return 'stop';
+  }
+  return null;
+}
+
+/** Words right of the phosphate (Romance order): "phosphate disodique", "fosfato de sodio y aluminio". */
+function readRightContext(v: TokenView, i: number, p: SaltPhrase): void {
+  let k = i + 1;
+  const rightLimit = Math.min(v.n, i + 10);
+  let pendingRightConj = false;
+  const addCation = (cation: Cation, mult: number | null, idx: number) => {
+    p.cations.push({ cation, mult, idx });
+    if (pendingRightConj) p.conjunction = true;
+    pendingRightConj = false;
+    p.e = v.at(idx).e;
+  };
+  while (k < rightLimit) {
+    const rt = v.at(k);
+    const rw = rt.type === 'w' ? rt.t : '';
+    const adj = rw ? CATION_ADJ_RE.exec(rw) : null;
+    if (adj) {
+      const stemText = (adj[2] ?? '').replace(/^s(?=sod)/, '');
+      const cat = adj[5] ? 'Fe' : cationOf(stemText);
+      if (cat) {
+        addCation(cat, adj[1] ? (MULT[adj[1]] ?? null) : null, k);
         k++;
         continue;
       }
-      if (rt.t === ',' && cations.length > 0 && /^(mono|di|tri)basic$/.test(word(k + 1))) {
-        k++;
-        continue;
-      }
-      if (rw === 'diacide' || rw === 'diacido') {
-        hydrogen = 2;
-        e = rt.e;
-        k++;
-        continue;
-      }
-      if (rw === 'acide' || rw === 'acido' || rw === 'acida') {
-        acid = true;
-        e = rt.e;
-        k++;
-        continue;
-      }
-      if (rw === 'basique' || rw === 'basico') {
-        basic = true;
-        e = rt.e;
-        k++;
-        continue;
-      }
-      if (rw && PREP.has(rw)) {
-        let q = k + 1;
-        if (tok(q)?.t === "'") q++;
-        const nw = word(q);
+    }
+    const basicity = /^(mono|di|tri)basic$/.exec(rw);
+    if (basicity && p.cations.length > 0) {
+      // pharmacopoeia style: "sodium phosphate, dibasic", "potassium phosphate monobasic"
+      const m = MULT[basicity[1] as string] ?? null;
+      for (const c of p.cations) if (c.mult === null) c.mult = m;
+      p.e = rt.e;
+      k++;
+      continue;
+    }
+    if (rt.t === ',' && p.cations.length > 0 && /^(mono|di|tri)basic$/.test(v.word(k + 1))) {
+      k++;
+      continue;
+    }
+    if (rightAcidity(rw, p)) {
+      p.e = rt.e;
+      k++;
+      continue;
+    }
+    if (rw && PREP.has(rw)) {
+      const after = readAfterPreposition(v, k, p, addCation);
+      if (after === null) break;
+      k = after;
+      continue;
+    }
+    if (rw && CONJ.has(rw) && p.cations.length > 0) {
+      // "de sodio y aluminio", "di sodio e calcio", "de sodium et de calcium"
+      const nw = v.word(k + 1);
+      if (CATION_NOUN_ROMANCE_RE.test(nw) || PREP.has(nw) || CATION_ADJ_RE.test(nw)) {
+        pendingRightConj = true;
         const cn = CATION_NOUN_ROMANCE_RE.exec(nw);
-        if (cn) {
-          const cat = cationOf(cn[2] as string);
-          // "os" (bone) only straight after "d'"/"de"
-          if (cat) {
-            cations.push({ cation: cat, mult: cn[1] ? (MULT[cn[1]] ?? null) : null, idx: q });
-            if (pendingRightConj) conjunction = true;
-            pendingRightConj = false;
-            e = (tokens[q] as Token).e;
-            k = q + 1;
-            continue;
-          }
-        }
-        const sw = STARCH_RE.exec(nw);
-        if (sw) {
-          starchFamily = sw[1] === 'mono' ? '1410' : '1412';
-          e = (tokens[q] as Token).e;
-          k = q + 1;
-          const qual = STARCH_QUALIFIER.find(([re]) => re.test(word(k)));
-          if (qual) {
-            starchQualifier = qual[1];
-            e = (tokens[k] as Token).e;
-            k++;
-          }
+        const cat = cn ? cationOf(cn[2] as string) : null;
+        if (cn && cat) {
+          addCation(cat, cn[1] ? (MULT[cn[1]] ?? null) : null, k + 1);
+          p.conjunction = true;
+          k += 2;
           continue;
         }
-        break;
+        k++;
+        continue;
       }
-      if (rw && CONJ.has(rw) && cations.length > 0) {
-        // "de sodio y aluminio", "di sodio e calcio", "de sodium et de calcium"
-        const nw = word(k + 1);
-        if (CATION_NOUN_ROMANCE_RE.test(nw) || PREP.has(nw) || CATION_ADJ_RE.test(nw)) {
-          pendingRightConj = true;
-          if (CATION_NOUN_ROMANCE_RE.test(nw)) {
-            const cn = CATION_NOUN_ROMANCE_RE.exec(nw) as RegExpExecArray;
-            const cat = cationOf(cn[2] as string);
-            if (cat) {
-              cations.push({ cation: cat, mult: cn[1] ? (MULT[cn[1]] ?? null) : null, idx: k + 1 });
-              conjunction = true;
-              pendingRightConj = false;
-              e = (tokens[k + 1] as Token).e;
-              k += 2;
-              continue;
-            }
-          }
-          k++;
-          continue;
-        }
-      }
-      break;
     }
+    break;
+  }
+}
 
-    const text = (): string => norm.slice(s, e);
-    if (organicEster) {
-      // A vitamin ester such as pyridoxal 5'-phosphate: not an additive in the catalogue.
-      continue;
-    }
-    if (riboflavin) {
-      raws.push({
-        entry: entryOrFamily('101', 'ii') as AdditiveEntry,
-        s,
-        e,
-        how: `name "${text()}"`,
-        byNumber: false,
-      });
-      continue;
-    }
-    if (starchFamily || starchQualifier) {
-      const fam = starchQualifier ?? starchFamily ?? '1412';
-      raws.push({
-        entry: entryOrFamily(fam, null) as AdditiveEntry,
-        s,
-        e,
-        how: `name "${text()}"`,
-        byNumber: false,
-      });
-      // "phosphate de diamidon phosphaté": the trailing qualifier is part of this finding.
-      while (i + 1 < n && (tokens[i + 1] as Token).e <= e) i++;
-      continue;
-    }
-    // Consume the right-hand tokens we used.
-    const lastUsed = i;
-    while (i + 1 < n && (tokens[i + 1] as Token).e <= e) i++;
+/** "diacide", "acide", "basique" after the anion: records it; false when the word is none. */
+function rightAcidity(rw: string, p: SaltPhrase): boolean {
+  if (rw === 'diacide' || rw === 'diacido') p.hydrogen = 2;
+  else if (rw === 'acide' || rw === 'acido' || rw === 'acida') p.acid = true;
+  else if (rw === 'basique' || rw === 'basico') p.basic = true;
+  else return false;
+  return true;
+}
 
-    if (cations.length === 0) {
-      const entry =
-        anion === 'ortho'
-          ? hydrogen !== null
-            ? UNSPECIFIED_PHOSPHATE
-            : UNSPECIFIED_PHOSPHATE
-          : (entryOrFamily(
-              anion === 'di' ? '450' : anion === 'tri' ? '451' : '452',
-              null,
-            ) as AdditiveEntry);
-      raws.push({ entry, s, e, how: `name "${text()}"`, byNumber: false });
-      continue;
-    }
-    const kinds = new Set(cations.map((c) => c.cation));
-    if (kinds.has('Na') && kinds.has('Al')) {
-      raws.push({
-        entry: saltEntry('Al', null, null, anion, acid, basic),
-        s,
-        e,
-        how: `name "${text()}"`,
-        byNumber: false,
-      });
-      continue;
-    }
-    if (kinds.has('Fe') || kinds.has('bone')) {
-      const c = kinds.has('Fe') ? 'Fe' : 'bone';
-      raws.push({
-        entry: saltEntry(c, null, null, anion, acid, basic),
-        s,
-        e,
-        how: `name "${text()}"`,
-        byNumber: false,
-      });
-      continue;
-    }
-    // Sodium calcium polyphosphate is one salt, also when written "de sodio y calcio".
-    if (anion === 'poly' && kinds.has('Na') && kinds.has('Ca')) {
-      raws.push({
-        entry: entryOrFamily('452', 'iii') as AdditiveEntry,
-        s,
-        e,
-        how: `name "${text()}"`,
-        byNumber: false,
-      });
-      continue;
-    }
-    if (cations.length === 1 || kinds.size === 1) {
-      const c = cations[0] as CationHit;
-      const mult = cations.find((x) => x.mult !== null)?.mult ?? null;
-      raws.push({
-        entry: saltEntry(c.cation, mult, hydrogen, anion, acid, basic),
-        s,
-        e,
-        how: `name "${text()}"`,
-        byNumber: false,
-      });
-      continue;
-    }
-    // "sodium and/or potassium phosphates": one finding per cation, each from its word to the anion.
-    const seen = new Set<Cation>();
-    const group = i;
-    for (const c of [...cations].sort((a, b) => a.idx - b.idx)) {
-      if (seen.has(c.cation)) continue;
-      seen.add(c.cation);
-      const cs = c.idx < lastUsed ? (tokens[c.idx] as Token).s : t.s;
-      const ce = c.idx < lastUsed ? t.e : (tokens[c.idx] as Token).e;
-      raws.push({
-        entry: saltEntry(c.cation, c.mult, hydrogen, anion, acid, basic),
-        s: cs,
-        e: ce,
-        how: `name "${norm.slice(cs, ce)}" (${conjunction ? 'one of several salts named together' : 'mixed salt, read as the salt of each cation'})`,
-        byNumber: false,
-        group,
-      });
-    }
+/**
+ * After "de"/"di"/"d'": a cation ("de sodio") or a starch ("de diamidon phosphaté"). Returns the
+ * next token index to read, or null when the preposition starts something else.
+ */
+function readAfterPreposition(
+  v: TokenView,
+  k: number,
+  p: SaltPhrase,
+  addCation: (cation: Cation, mult: number | null, idx: number) => void,
+): number | null {
+  let q = k + 1;
+  if (v.tok(q)?.t === "'") q++;
+  const nw = v.word(q);
+  const cn = CATION_NOUN_ROMANCE_RE.exec(nw);
+  // "os" (bone) only straight after "d'"/"de"
+  const cat = cn ? cationOf(cn[2] as string) : null;
+  if (cn && cat) {
+    addCation(cat, cn[1] ? (MULT[cn[1]] ?? null) : null, q);
+    return q + 1;
+  }
+  const sw = STARCH_RE.exec(nw);
+  if (!sw) return null;
+  p.starchFamily = sw[1] === 'mono' ? '1410' : '1412';
+  p.e = v.at(q).e;
+  let next = q + 1;
+  const qual = STARCH_QUALIFIER.find(([re]) => re.test(v.word(next)));
+  if (qual) {
+    p.starchQualifier = qual[1];
+    p.e = v.at(next).e;
+    next++;
+  }
+  return next;
+}
+
+/** Turns a read phrase into findings: one salt, a mixed salt, or one finding per named cation. */
+function saltFindings(v: TokenView, i: number, p: SaltPhrase): NameMatch {
+  const { s, e, cations, hydrogen, anion, acid, basic } = p;
+  const text = v.norm.slice(s, e);
+  const one = (entry: AdditiveEntry, last: number): NameMatch => ({
+    raws: [nameRaw(entry, s, e, `name "${text}"`)],
+    last,
+  });
+  // A vitamin ester such as pyridoxal 5'-phosphate: not an additive in the catalogue.
+  if (p.organicEster) return { raws: [], last: i };
+  if (p.riboflavin) return one(entryOrFamily('101', 'ii') as AdditiveEntry, i);
+  // Consume the right-hand tokens used ("phosphate de diamidon phosphaté": the trailing
+  // qualifier is part of this finding).
+  let last = i;
+  while (last + 1 < v.n && v.at(last + 1).e <= e) last++;
+  if (p.starchFamily || p.starchQualifier)
+    return one(family(p.starchQualifier ?? p.starchFamily ?? '1412'), last);
+  if (cations.length === 0) {
+    const code = anion === 'di' ? '450' : anion === 'tri' ? '451' : '452';
+    return one(anion === 'ortho' ? UNSPECIFIED_PHOSPHATE : family(code), last);
+  }
+  const kinds = new Set(cations.map((c) => c.cation));
+  if (kinds.has('Na') && kinds.has('Al'))
+    return one(saltEntry('Al', null, null, anion, acid, basic), last);
+  if (kinds.has('Fe') || kinds.has('bone')) {
+    const c = kinds.has('Fe') ? 'Fe' : 'bone';
+    return one(saltEntry(c, null, null, anion, acid, basic), last);
+  }
+  // Sodium calcium polyphosphate is one salt, also when written "de sodio y calcio".
+  if (anion === 'poly' && kinds.has('Na') && kinds.has('Ca'))
+    return one(entryOrFamily('452', 'iii') as AdditiveEntry, last);
+  if (cations.length === 1 || kinds.size === 1) {
+    const c = cations[0] as CationHit;
+    const mult = cations.find((x) => x.mult !== null)?.mult ?? null;
+    return one(saltEntry(c.cation, mult, hydrogen, anion, acid, basic), last);
+  }
+  return { raws: perCationFindings(v, i, last, p), last };
+}
+
+/** "sodium and/or potassium phosphates": one finding per cation, each from its word to the anion. */
+function perCationFindings(v: TokenView, i: number, last: number, p: SaltPhrase): Raw[] {
+  const t = v.at(i);
+  const raws: Raw[] = [];
+  const seen = new Set<Cation>();
+  for (const c of [...p.cations].sort((a, b) => a.idx - b.idx)) {
+    if (seen.has(c.cation)) continue;
+    seen.add(c.cation);
+    const cs = c.idx < i ? v.at(c.idx).s : t.s;
+    const ce = c.idx < i ? t.e : v.at(c.idx).e;
+    const why = p.conjunction
+      ? 'one of several salts named together'
+      : 'mixed salt, read as the salt of each cation';
+    raws.push({
+      ...nameRaw(
+        saltEntry(c.cation, c.mult, p.hydrogen, p.anion, p.acid, p.basic),
+        cs,
+        ce,
+        `name "${v.norm.slice(cs, ce)}" (${why})`,
+      ),
+      group: last,
+    });
   }
   return raws;
 }
+
+/** The name rules, in the order they are tried on a word (the first that reads it wins). */
+const NAME_RULES: readonly NameRule[] = [
+  abbreviationRule,
+  iPlusGRule,
+  acidCompoundRule,
+  acidAdjectiveRule,
+  lecithinRule,
+  glycerophosphateRule,
+  nucleotideRule,
+  ribonucleotideRule,
+  phosphatideRule,
+  starchCompoundRule,
+  phosphateSaltRule,
+];
 
 // ---------------------------------------------------------------------------------------------
 // Negations and amounts
