@@ -336,20 +336,37 @@ export class AuthService {
     return !!row && Date.parse(row.expires_at) > this.now().getTime();
   }
 
-  /** Creates the first admin with a valid set-up token and consumes the token. */
+  /**
+   * Creates the first admin with a valid set-up token. The token is consumed in the same
+   * transaction that creates the account, so one token makes one admin however many posts race.
+   */
   async completeSetup(token: string, username: string, password: string): Promise<SignedIn> {
-    if (!(await this.setupNeeded())) {
-      throw new AppError('PHL_AUTH_SETUP_DONE', 409, 'set-up is already done: sign in instead');
-    }
-    if (!(await this.setupTokenValid(token))) {
-      throw new AppError(
+    const setupDone = () =>
+      new AppError('PHL_AUTH_SETUP_DONE', 409, 'set-up is already done: sign in instead');
+    const badToken = () =>
+      new AppError(
         'PHL_AUTH_SETUP_TOKEN_INVALID',
         403,
         'the set-up link is invalid or has expired: restart the server for a new one',
       );
+    if (!(await this.setupNeeded())) throw setupDone();
+    if (!(await this.setupTokenValid(token))) throw badToken();
+    const name = AuthService.normaliseUsername(username);
+    const problem = passwordProblem(password, name);
+    if (problem) throw new AppError('PHL_AUTH_PASSWORD_WEAK', 400, problem);
+    const passwordHash = await hashPassword(password, this.scryptParams);
+    const created = await this.repo.consumeSetupTokenForAdmin(
+      tokenHash(token),
+      this.now().toISOString(),
+      { username: name, passwordHash },
+    );
+    if (!created.ok) {
+      if (created.reason === 'done') throw setupDone();
+      if (created.reason === 'taken') {
+        throw new AppError('PHL_AUTH_USERNAME_TAKEN', 409, `username ${name} is already taken`);
+      }
+      throw badToken();
     }
-    const user = await this.createUser(username, 'admin', password);
-    await this.repo.clearSetupTokens();
-    return this.openSession(user);
+    return this.openSession({ id: created.id, username: name, role: 'admin' });
   }
 }

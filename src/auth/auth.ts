@@ -69,4 +69,6 @@ export const DEFAULT_AUTH_POLICY: AuthPolicy = Object.freeze({
 });
 
 export const SESSION_COOKIE = 'phl_session';
+/** Cookie-name prefix browsers enforce Secure, Path=/ and no Domain for (RFC 6265bis). */
+export const HOST_COOKIE_PREFIX = '__Host-';
 export const CSRF_HEADER = 'x-csrf-token';

@@ -4,9 +4,10 @@ import { z } from 'zod';
 import { recordAudit } from '../audit/audit.service.js';
 import type { Clock } from '../clock.js';
 import type { Db } from '../db/database.js';
-import { SESSION_COOKIE, usernameSchema } from './auth.js';
-import { sessionCookieOptions } from './auth.plugin.js';
+import { usernameSchema } from './auth.js';
+import { setSessionCookie } from './auth.plugin.js';
 import type { AuthService } from './auth.service.js';
+import { PUBLIC_AUTH_BODY_LIMIT_BYTES } from '../server/body-limits.js';
 import { MAX_PASSWORD_LENGTH, passwordProblem } from './password.js';
 
 function escapeHtml(s: string): string {
@@ -52,7 +53,7 @@ export const setupRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthS
 ) => {
   app.addContentTypeParser(
     'application/x-www-form-urlencoded',
-    { parseAs: 'string', bodyLimit: 16 * 1024 },
+    { parseAs: 'string', bodyLimit: PUBLIC_AUTH_BODY_LIMIT_BYTES },
     (_req, body, done) => {
       done(null, Object.fromEntries(new URLSearchParams(body as string)));
     },
@@ -94,7 +95,11 @@ export const setupRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthS
 
   api.post(
     '/setup',
-    { config: { public: true }, schema: { hide: true, body: formSchema } },
+    {
+      bodyLimit: PUBLIC_AUTH_BODY_LIMIT_BYTES,
+      config: { public: true },
+      schema: { hide: true, body: formSchema },
+    },
     async (req, reply) => {
       const { token, username, password, password2 } = req.body;
       if (!(await auth.setupNeeded())) {
@@ -115,7 +120,7 @@ export const setupRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthS
           : passwordProblem(password, name.data);
       if (problem) return html(reply, 400, formPage(token, problem, username));
       const signedIn = await auth.completeSetup(token, username, password);
-      reply.setCookie(SESSION_COOKIE, signedIn.token, sessionCookieOptions(req, auth.policy));
+      setSessionCookie(req, reply, auth.policy, signedIn.token);
       await recordAudit(
         db,
         {
@@ -149,6 +154,7 @@ export const setupRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthS
   api.post(
     '/api/setup',
     {
+      bodyLimit: PUBLIC_AUTH_BODY_LIMIT_BYTES,
       config: { public: true },
       schema: {
         tags: ['accounts'],
@@ -166,7 +172,7 @@ export const setupRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthS
         req.body.username,
         req.body.password,
       );
-      reply.setCookie(SESSION_COOKIE, signedIn.token, sessionCookieOptions(req, auth.policy));
+      setSessionCookie(req, reply, auth.policy, signedIn.token);
       await recordAudit(
         db,
         {
