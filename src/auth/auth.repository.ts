@@ -173,6 +173,11 @@ export class AuthRepository {
     await this.db.deleteFrom('sign_in_throttle').where('key', '=', key).execute();
   }
 
+  async clearThrottlesLike(pattern: string): Promise<number> {
+    const r = await this.db.deleteFrom('sign_in_throttle').where('key', 'like', pattern).execute();
+    return Number(r[0]?.numDeletedRows ?? 0);
+  }
+
   // security options kept in the shared `setting` table under keys no settings route serves
   async getOption(key: string): Promise<string | null> {
     const row = await this.db

@@ -136,8 +136,21 @@ export const authRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthSe
     },
     async (req, reply) => {
       const user = req.user!;
-      if (!(await auth.checkPassword(user.id, req.body.currentPassword))) {
-        throw new AppError('PHL_AUTH_INVALID_CREDENTIALS', 401, 'current password is wrong');
+      try {
+        await auth.checkCurrentPassword(user, req.body.currentPassword, req.authSession!);
+      } catch (err) {
+        // Recorded like a failed sign-in; a session ended for guessing loses its cookie.
+        const code = err instanceof AppError ? err.code : 'PHL_INTERNAL';
+        if (code === 'PHL_AUTH_SESSION_ENDED') clearSessionCookie(req, reply, auth.policy);
+        await audit({
+          userId: user.id,
+          action: 'user.password-change',
+          entity: 'user',
+          entityId: user.id,
+          outcome: 'denied',
+          details: { reason: code },
+        });
+        throw err;
       }
       await auth.setPassword(user.id, req.body.newPassword);
       await auth.signOutEverywhere(user.id);

@@ -11,7 +11,14 @@ import {
   verifyPassword,
   type ScryptParams,
 } from './password.js';
-import { activeFailures, afterFailure, lockedUntil, type ThrottleState } from './throttle.js';
+import {
+  activeFailures,
+  afterFailure,
+  mayAttempt,
+  type ThrottleRule,
+  type ThrottleState,
+} from './throttle.js';
+import { isLoopbackAddress } from './addresses.js';
 import { newToken, tokenHash } from './tokens.js';
 
 /** A live session as the auth hook sees it. The token itself is never stored. */
@@ -139,16 +146,39 @@ export class AuthService {
     await this.repo.updateUser(id, { passwordHash }, this.now().toISOString());
   }
 
-  /** Checks a user's current password (for password change); no throttling beyond the session. */
-  async checkPassword(id: number, password: string): Promise<boolean> {
-    const row = await this.repo.findUser(id);
-    return row ? verifyPassword(password, row.password_hash) : false;
+  /**
+   * Checks the current password on password change. Wrong answers count as sign-in failures of
+   * the account (so guessing here is throttled like signing in), a locked account is refused,
+   * and after `passwordChangeFailureLimit` failures the session that guessed is ended.
+   */
+  async checkCurrentPassword(user: AuthUser, password: string, session: ActiveSession) {
+    const key = `user:${user.username}`;
+    const rule = this.rules().user;
+    const now = this.now();
+    this.refuseIfLocked(key, toState(await this.repo.findThrottle(key)), now, rule);
+    const row = await this.repo.findUser(user.id);
+    if (row && (await verifyPassword(password, row.password_hash))) return;
+    const after = await this.recordFailure(key, rule);
+    if (activeFailures(after, this.now(), rule) >= this.policy.passwordChangeFailureLimit) {
+      await this.signOut(session);
+      throw new AuthError(
+        'PHL_AUTH_SESSION_ENDED',
+        401,
+        'current password wrong too many times: you have been signed out',
+      );
+    }
+    throw new AuthError('PHL_AUTH_INVALID_CREDENTIALS', 401, 'current password is wrong');
   }
 
   private rules() {
     const p = this.policy;
     return {
-      user: { limit: p.userFailureLimit, windowMs: p.failureWindowMs, lockoutMs: p.lockoutMs },
+      user: {
+        limit: p.userFailureLimit,
+        windowMs: p.userFailureWindowMs,
+        lockoutMs: p.userLockoutMs,
+        maxLockoutMs: p.userLockoutMaxMs,
+      },
       address: {
         limit: p.addressFailureLimit,
         windowMs: p.failureWindowMs,
@@ -157,7 +187,7 @@ export class AuthService {
     };
   }
 
-  private async recordFailure(key: string, rule: ReturnType<AuthService['rules']>['user']) {
+  private async recordFailure(key: string, rule: ThrottleRule): Promise<ThrottleState> {
     const now = this.now();
     const next = afterFailure(toState(await this.repo.findThrottle(key)), now, rule);
     await this.repo.saveThrottle({
@@ -166,39 +196,56 @@ export class AuthService {
       window_started_at: next.windowStartedAt.toISOString(),
       locked_until: next.lockedUntil?.toISOString() ?? null,
     });
+    return next;
+  }
+
+  private refuseIfLocked(
+    key: string,
+    state: ThrottleState | undefined,
+    now: Date,
+    rule: ThrottleRule,
+  ): void {
+    const verdict = mayAttempt(state, now, rule, this.inFlight.get(key) ?? 0);
+    if (verdict.ok) return;
+    throw new AuthError(
+      'PHL_AUTH_LOCKED',
+      429,
+      'too many failed sign-ins: try again later or ask the clinic admin',
+      { retryAfterS: Math.max(1, Math.ceil(verdict.retryAfterMs / 1000)) },
+    );
+  }
+
+  /** Clears a username's failures and lock (`phosledger users unlock`). True if it had any. */
+  async unlockUser(username: string): Promise<boolean> {
+    const key = `user:${username.trim().toLowerCase()}`;
+    const had = (await this.repo.findThrottle(key)) !== undefined;
+    await this.repo.clearThrottle(key);
+    return had;
+  }
+
+  /** Clears every address lock (`phosledger users unlock --addresses`). Returns how many. */
+  async unlockAddresses(): Promise<number> {
+    return this.repo.clearThrottlesLike('ip:%');
   }
 
   /**
    * Signs in. Unknown usernames cost the same scrypt work as known ones and count towards
-   * lock-out the same way, so neither timing nor lock-out tells which accounts exist.
+   * lock-out the same way, so neither timing nor lock-out tells which accounts exist. Loopback
+   * addresses are not throttled as addresses (behind a proxy every client shares one).
    */
   async signIn(username: string, password: string, address: string): Promise<SignedIn> {
     const name = username.trim().toLowerCase();
-    const keys = { user: `user:${name}`, address: `ip:${address}` };
     const rules = this.rules();
     const now = this.now();
-    const throttles = {
-      user: toState(await this.repo.findThrottle(keys.user)),
-      address: toState(await this.repo.findThrottle(keys.address)),
-    };
-    for (const which of ['user', 'address'] as const) {
-      const key = keys[which];
-      const until = lockedUntil(throttles[which], now);
-      // Attempts still being checked count too, so a burst cannot outrun the counter.
-      const pending = this.inFlight.get(key) ?? 0;
-      const counted = activeFailures(throttles[which], now, rules[which]) + pending;
-      if (until || counted >= rules[which].limit) {
-        const retryAfterS = until ? Math.ceil((until.getTime() - now.getTime()) / 1000) : 1;
-        throw new AuthError(
-          'PHL_AUTH_LOCKED',
-          429,
-          'too many failed sign-ins: try again later or ask the clinic admin',
-          { retryAfterS },
-        );
-      }
+    const checks: Array<{ key: string; rule: ThrottleRule }> = [
+      { key: `user:${name}`, rule: rules.user },
+    ];
+    if (!isLoopbackAddress(address)) checks.push({ key: `ip:${address}`, rule: rules.address });
+    for (const { key, rule } of checks) {
+      this.refuseIfLocked(key, toState(await this.repo.findThrottle(key)), now, rule);
     }
     const bump = (d: number) => {
-      for (const key of [keys.user, keys.address]) {
+      for (const { key } of checks) {
         const n = (this.inFlight.get(key) ?? 0) + d;
         if (n > 0) this.inFlight.set(key, n);
         else this.inFlight.delete(key);
@@ -215,11 +262,10 @@ export class AuthService {
       bump(-1);
     }
     if (!row || !ok || row.disabled === 1) {
-      await this.recordFailure(keys.user, rules.user);
-      await this.recordFailure(keys.address, rules.address);
+      for (const { key, rule } of checks) await this.recordFailure(key, rule);
       throw invalidCredentials();
     }
-    await this.repo.clearThrottle(keys.user);
+    await this.repo.clearThrottle(`user:${name}`);
     const at = this.now().toISOString();
     const rehash = needsRehash(row.password_hash, this.scryptParams)
       ? await hashPassword(password, this.scryptParams)

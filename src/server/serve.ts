@@ -5,6 +5,7 @@ import {
   afterListen,
   exposureWarning,
   loadTls,
+  proxyNotice,
   trustProxyFromEnv,
   type TlsFiles,
 } from '../auth/transport.js';
@@ -31,16 +32,17 @@ export async function serve(config: Config, clock: Clock, io: ServeIo, transport
   const db = openDb(config.dbFile);
   await migrateToLatest(db);
   for (const step of firstStartSteps) await step({ db, config, clock, io });
+  const trustProxy = trustProxyFromEnv(process.env);
   const app = await buildApp({
     db,
     clock,
     config,
     logger: safeLogger(config.logLevel),
-    trustProxy: trustProxyFromEnv(process.env),
+    trustProxy,
     ...(https ? { https } : {}),
   });
   const address = await app.listen({ host: config.host, port: config.port });
-  io.stdout.write(`phosledger listening on ${address}\n`);
+  io.stdout.write(`phosledger listening on ${address}\n${proxyNotice(trustProxy)}\n`);
   await afterListen(app, address, io.stdout);
   // Diary audits' name indexes and scoring features, built while the first requests come in.
   const stopPreparing = new AbortController();
