@@ -17,31 +17,72 @@ function escapeHtml(s: string): string {
   );
 }
 
+/**
+ * The set-up screens share the consult screens' stylesheet and frame (top bar, card, footer)
+ * and work without script: a plain form post.
+ */
 function page(title: string, body: string): string {
   return `<!doctype html>
-<html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
-<title>${escapeHtml(title)} - phosledger</title></head>
-<body><main><h1>${escapeHtml(title)}</h1>${body}</main></body></html>
+<html lang="en">
+<head>
+<meta charset="utf-8">
+<meta name="viewport" content="width=device-width, initial-scale=1">
+<title>${escapeHtml(title)} · phosledger</title>
+<link rel="icon" href="data:,">
+<link rel="stylesheet" href="/assets/app.css">
+</head>
+<body>
+<a class="skip" href="#main">Skip to content</a>
+<header class="topbar">
+  <a class="wordmark" href="/"><span class="wordmark-p" aria-hidden="true">P</span>phosledger</a>
+</header>
+<main id="main" tabindex="-1">
+<section class="signin card" aria-labelledby="setup-h">
+<h1 id="setup-h">${escapeHtml(title)}</h1>
+${body}
+</section>
+</main>
+<footer class="foot"><p>phosledger estimates; it does not prescribe. Every figure is for the care team to check against local guidance.</p></footer>
+</body>
+</html>
 `;
 }
 
 function formPage(token: string, message: string | null, username = ''): string {
   return page(
     'Create the clinic admin account',
-    `<p>This link works once. The admin account manages dietitian accounts and reads the audit log.</p>
-${message ? `<p role="alert"><strong>${escapeHtml(message)}</strong></p>` : ''}
-<form method="post" action="/setup">
+    `<p class="muted">This link works once. The admin account manages dietitian accounts, the clinic settings and reads the audit log.</p>
+<form id="setup-form" method="post" action="/setup">
 <input type="hidden" name="token" value="${escapeHtml(token)}">
-<p><label>Username <input name="username" autocomplete="username" required value="${escapeHtml(username)}"></label></p>
-<p><label>Password (at least 12 characters) <input type="password" name="password" autocomplete="new-password" required></label></p>
-<p><label>Password again <input type="password" name="password2" autocomplete="new-password" required></label></p>
-<p><button type="submit">Create admin</button></p>
+<div class="field">
+  <label for="setup-username">Username</label>
+  <input id="setup-username" name="username" autocomplete="username" required value="${escapeHtml(username)}">
+</div>
+<div class="field">
+  <label for="setup-password">Password (at least 12 characters; a few unrelated words work well)</label>
+  <input id="setup-password" type="password" name="password" autocomplete="new-password" required>
+</div>
+<div class="field">
+  <label for="setup-password2">Password again</label>
+  <input id="setup-password2" type="password" name="password2" autocomplete="new-password" required>
+</div>
+<button class="btn btn-primary" type="submit">Create admin</button>
+<div class="status${message ? ' error' : ''}" id="setup-status" role="status" aria-live="polite">${message ? escapeHtml(message) : ''}</div>
 </form>`,
   );
 }
 
+/**
+ * The set-up pages send their origin with the form post (`same-origin` referrer policy): under
+ * the site-wide `no-referrer` a browser posts with `Origin: null`, which the cross-site check
+ * must refuse. The page links nowhere else, so nothing leaves with it.
+ */
 const html = (reply: FastifyReply, status: number, body: string) =>
-  reply.status(status).type('text/html; charset=utf-8').send(body);
+  reply
+    .status(status)
+    .header('referrer-policy', 'same-origin')
+    .type('text/html; charset=utf-8')
+    .send(body);
 
 /**
  * First-run set-up: while no admin exists, the server prints a one-time link
@@ -78,7 +119,7 @@ export const setupRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthS
           403,
           page(
             'This set-up link is not valid',
-            '<p>It has been used or has expired. Restart the server to print a new link, or run <code>phosledger users add NAME --role admin</code>.</p>',
+            '<p>It has been used or has expired. Restart the server to print a new link, or run <code>phosledger users add NAME --role admin</code> on the server.</p>',
           ),
         );
       }
@@ -136,7 +177,7 @@ export const setupRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthS
         201,
         page(
           'Admin account created',
-          `<p>You are signed in as ${escapeHtml(signedIn.user.username)}. <a href="/">Open phosledger</a>.</p>`,
+          `<p>You are signed in as ${escapeHtml(signedIn.user.username)}. <a class="btn btn-primary" href="/patients">Open phosledger</a></p>`,
         ),
       );
     },
