@@ -228,45 +228,48 @@ export class AuthRepository {
     now: string,
     admin: { username: string; passwordHash: string },
   ): Promise<{ ok: true; id: number } | { ok: false; reason: 'done' | 'token' | 'taken' }> {
-    return this.db.transaction().execute(async (trx) => {
-      const admins = await trx
-        .selectFrom('app_user')
-        .select((eb) => eb.fn.countAll<number>().as('n'))
-        .where('role', '=', 'admin')
-        .where('disabled', '=', 0)
-        .executeTakeFirstOrThrow();
-      if (Number(admins.n) > 0) return { ok: false, reason: 'done' } as const;
-      const consumed = await trx
-        .deleteFrom('setup_token')
-        .where('token_hash', '=', tokenHash)
-        .where('expires_at', '>', now)
-        .returning('token_hash')
-        .executeTakeFirst();
-      if (!consumed) return { ok: false, reason: 'token' } as const;
-      const taken = await trx
-        .selectFrom('app_user')
-        .select('id')
-        .where('username', '=', admin.username)
-        .executeTakeFirst();
-      if (taken) throw new SetupRollback('taken');
-      await trx.deleteFrom('setup_token').execute();
-      const row = await trx
-        .insertInto('app_user')
-        .values({
-          username: admin.username,
-          role: 'admin',
-          password_hash: admin.passwordHash,
-          created_at: now,
-          updated_at: now,
-        })
-        .returning('id')
-        .executeTakeFirstOrThrow();
-      return { ok: true, id: row.id } as const;
-    }).catch((err: unknown) => {
-      // A taken username keeps the token: the person may try again with another name.
-      if (err instanceof SetupRollback) return { ok: false, reason: err.reason } as const;
-      throw err;
-    });
+    return this.db
+      .transaction()
+      .execute(async (trx) => {
+        const admins = await trx
+          .selectFrom('app_user')
+          .select((eb) => eb.fn.countAll<number>().as('n'))
+          .where('role', '=', 'admin')
+          .where('disabled', '=', 0)
+          .executeTakeFirstOrThrow();
+        if (Number(admins.n) > 0) return { ok: false, reason: 'done' } as const;
+        const consumed = await trx
+          .deleteFrom('setup_token')
+          .where('token_hash', '=', tokenHash)
+          .where('expires_at', '>', now)
+          .returning('token_hash')
+          .executeTakeFirst();
+        if (!consumed) return { ok: false, reason: 'token' } as const;
+        const taken = await trx
+          .selectFrom('app_user')
+          .select('id')
+          .where('username', '=', admin.username)
+          .executeTakeFirst();
+        if (taken) throw new SetupRollback('taken');
+        await trx.deleteFrom('setup_token').execute();
+        const row = await trx
+          .insertInto('app_user')
+          .values({
+            username: admin.username,
+            role: 'admin',
+            password_hash: admin.passwordHash,
+            created_at: now,
+            updated_at: now,
+          })
+          .returning('id')
+          .executeTakeFirstOrThrow();
+        return { ok: true, id: row.id } as const;
+      })
+      .catch((err: unknown) => {
+        // A taken username keeps the token: the person may try again with another name.
+        if (err instanceof SetupRollback) return { ok: false, reason: err.reason } as const;
+        throw err;
+      });
   }
 }
 

@@ -22,7 +22,13 @@ export const CONTEXT_WORDS = [
 ] as const;
 
 /** Sequences people type: the alphabet, digits and the three letter rows of a QWERTY keyboard. */
-const SEQUENCES = ['abcdefghijklmnopqrstuvwxyz', '01234567890', 'qwertyuiop', 'asdfghjkl', 'zxcvbnm'];
+const SEQUENCES = [
+  'abcdefghijklmnopqrstuvwxyz',
+  '01234567890',
+  'qwertyuiop',
+  'asdfghjkl',
+  'zxcvbnm',
+];
 
 /** A run shorter than this is not counted as a trivial pattern (NIST's examples use 4 and 6). */
 const MIN_RUN = 3;

@@ -182,7 +182,8 @@ export const usersDisable: Command = {
 export const usersUnlock: Command = {
   path: ['users', 'unlock'],
   usage: '<username> | --addresses',
-  summary: "clear an account's failed sign-ins and lock (or every address lock): the admin's way back in",
+  summary:
+    "clear an account's failed sign-ins and lock (or every address lock): the admin's way back in",
   options: { addresses: { type: 'boolean' } },
   async run(ctx) {
     const auth = await service(ctx);

@@ -45,8 +45,7 @@ export const dbBackup: Command = {
 export const dbRestore: Command = {
   path: ['db', 'restore'],
   usage: '<file>',
-  summary:
-    'replace the database with a signed, checked backup (refused while a server runs on it)',
+  summary: 'replace the database with a signed, checked backup (refused while a server runs on it)',
   minPositionals: 1,
   async run(ctx) {
     usePrivateUmask();

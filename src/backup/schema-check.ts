@@ -22,7 +22,10 @@ function objectsOf(db: Database.Database): Map<string, string> {
   for (const r of rows) {
     if (IGNORED.test(r.name)) continue;
     // Whitespace is not meaning: compare the statement with its runs of space folded.
-    out.set(`${r.type} ${r.name}`, `on ${r.tbl_name}: ${(r.sql ?? '').replace(/\s+/g, ' ').trim()}`);
+    out.set(
+      `${r.type} ${r.name}`,
+      `on ${r.tbl_name}: ${(r.sql ?? '').replace(/\s+/g, ' ').trim()}`,
+    );
   }
   return out;
 }

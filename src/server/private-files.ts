@@ -1,4 +1,12 @@
-import { chmodSync, closeSync, existsSync, mkdirSync, openSync, readdirSync, statSync } from 'node:fs';
+import {
+  chmodSync,
+  closeSync,
+  existsSync,
+  mkdirSync,
+  openSync,
+  readdirSync,
+  statSync,
+} from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 
 /**

@@ -49,7 +49,8 @@ export const settingsRoutes: FastifyPluginAsync<{ db: Db; clock: Clock }> = asyn
         body: z.unknown(),
       },
     },
-    async (req) => recordChange(req, await service.change(req.user!.role, req.params.key, req.body)),
+    async (req) =>
+      recordChange(req, await service.change(req.user!.role, req.params.key, req.body)),
   );
 
   api.delete(

@@ -102,15 +102,14 @@ describe.skipIf(!hasChromium && !inCi)(
       await page.goto(link!);
       expect(await page.textContent('h1')).toBe('Set-up is done');
       await page.goto(`${server.address}/patients`);
-      await page.waitForFunction(
-        () => document.getElementById('whoami-name')?.textContent?.includes('clinic-admin'),
+      await page.waitForFunction(() =>
+        document.getElementById('whoami-name')?.textContent?.includes('clinic-admin'),
       );
     });
 
     it('shows the Take-home sheet preview without a <base> the page CSP refuses', async () => {
       const plan = server.db.sqlite.prepare('SELECT id FROM plan ORDER BY id LIMIT 1').get() as
-        | { id: number }
-        | undefined;
+        { id: number } | undefined;
       expect(plan, 'the demo plan (seeded on first start)').toBeDefined();
       consoleErrors.length = 0;
       await page.goto(`${server.address}/plans/${plan!.id}/preview?lang=en`);
@@ -119,13 +118,9 @@ describe.skipIf(!hasChromium && !inCi)(
       const bases = await frame.locator('base').count();
       expect(bases).toBe(0);
       // the sheet's own stylesheet still resolves: handout.css sets body text to 13 pt
-      const fontSize = await frame
-        .locator('body')
-        .evaluate((el) => getComputedStyle(el).fontSize);
+      const fontSize = await frame.locator('body').evaluate((el) => getComputedStyle(el).fontSize);
       expect(fontSize).toBe('17.3333px'); // 13 pt x 96/72 px per pt
-      expect(consoleErrors.filter((e) => /base URI|Content Security Policy/i.test(e))).toEqual(
-        [],
-      );
+      expect(consoleErrors.filter((e) => /base URI|Content Security Policy/i.test(e))).toEqual([]);
     });
   },
 );

@@ -176,7 +176,11 @@ async function setUp(form: HTMLFormElement): Promise<void> {
     return;
   }
   const { user } = await currentSession();
-  if (user?.role !== 'admin' && setting.editableBy !== undefined && setting.editableBy !== user?.role) {
+  if (
+    user?.role !== 'admin' &&
+    setting.editableBy !== undefined &&
+    setting.editableBy !== user?.role
+  ) {
     makeReadOnly(form, setting);
     return;
   }
