@@ -41,37 +41,35 @@ export function ensurePrivateFile(file: string): void {
   chmodSync(file, PRIVATE_FILE_MODE);
 }
 
-/** Files of this database (itself, -wal, -shm, copies and key beside it) and its folder. */
+/** Files of this database: itself, -wal, -shm, copies, signatures, key and lock beside it. */
 function databaseFiles(dbFile: string): string[] {
   const dir = dirname(dbFile);
   const base = basename(dbFile);
   if (!existsSync(dir)) return [];
-  const files = readdirSync(dir)
+  return readdirSync(dir)
     .filter((name) => name.startsWith(base))
     .map((name) => join(dir, name));
-  return [dir, ...files];
 }
 
 /**
- * Warnings for this database's files that other users of the machine can read (or enter, for
- * the folder), with the command that fixes each. Empty when all are private.
+ * Warnings for this database's files that other users of the machine can read or write, with
+ * the command that fixes each. Empty when all are private. (A folder made by phosledger is
+ * 0700; an existing one, such as the checkout's `db/`, only lets others see file names.)
  */
 export function exposedFileWarnings(dbFile: string): string[] {
   const warnings: string[] = [];
   for (const path of databaseFiles(dbFile)) {
     let mode: number;
-    let isDir: boolean;
     try {
       const st = statSync(path);
+      if (!st.isFile()) continue;
       mode = st.mode & 0o777;
-      isDir = st.isDirectory();
     } catch {
       continue;
     }
     if ((mode & 0o077) === 0) continue;
-    const want = isDir ? '700' : '600';
     warnings.push(
-      `WARNING: ${path} is ${isDir ? 'open' : 'readable'} to other users of this machine (mode ${mode.toString(8).padStart(3, '0')}); it holds health information: chmod ${want} '${path}'`,
+      `WARNING: ${path} is readable to other users of this machine (mode ${mode.toString(8).padStart(3, '0')}); it holds health information: chmod 600 '${path}'`,
     );
   }
   return warnings;
