@@ -156,8 +156,11 @@ export class AuthService {
     const rule = this.rules().user;
     const now = this.now();
     this.refuseIfLocked(key, toState(await this.repo.findThrottle(key)), now, rule);
-    const row = await this.repo.findUser(user.id);
-    if (row && (await verifyPassword(password, row.password_hash))) return;
+    const ok = await this.whileChecking([key], async () => {
+      const row = await this.repo.findUser(user.id);
+      return !!row && (await verifyPassword(password, row.password_hash));
+    });
+    if (ok) return;
     const after = await this.recordFailure(key, rule);
     if (activeFailures(after, this.now(), rule) >= this.policy.passwordChangeFailureLimit) {
       await this.signOut(session);
@@ -197,6 +200,26 @@ export class AuthService {
       locked_until: next.lockedUntil?.toISOString() ?? null,
     });
     return next;
+  }
+
+  /**
+   * Runs a password check counted as in flight for the keys: attempts still being checked count
+   * as failures, so a burst of parallel guesses cannot outrun the counter.
+   */
+  private async whileChecking<T>(keys: string[], check: () => Promise<T>): Promise<T> {
+    const bump = (d: number) => {
+      for (const key of keys) {
+        const n = (this.inFlight.get(key) ?? 0) + d;
+        if (n > 0) this.inFlight.set(key, n);
+        else this.inFlight.delete(key);
+      }
+    };
+    bump(1);
+    try {
+      return await check();
+    } finally {
+      bump(-1);
+    }
   }
 
   private refuseIfLocked(
@@ -244,23 +267,16 @@ export class AuthService {
     for (const { key, rule } of checks) {
       this.refuseIfLocked(key, toState(await this.repo.findThrottle(key)), now, rule);
     }
-    const bump = (d: number) => {
-      for (const { key } of checks) {
-        const n = (this.inFlight.get(key) ?? 0) + d;
-        if (n > 0) this.inFlight.set(key, n);
-        else this.inFlight.delete(key);
-      }
-    };
-    bump(1);
-    let row;
-    let ok: boolean;
-    try {
-      row = await this.repo.findUserByName(name);
+    const keys = checks.map((c) => c.key);
+    const { row, ok } = await this.whileChecking(keys, async () => {
+      const found = await this.repo.findUserByName(name);
       this.dummyHash ??= hashPassword('not a real password', this.scryptParams);
-      ok = await verifyPassword(password, row?.password_hash ?? (await this.dummyHash));
-    } finally {
-      bump(-1);
-    }
+      const matches = await verifyPassword(
+        password,
+        found?.password_hash ?? (await this.dummyHash),
+      );
+      return { row: found, ok: matches };
+    });
     if (!row || !ok || row.disabled === 1) {
       for (const { key, rule } of checks) await this.recordFailure(key, rule);
       throw invalidCredentials();

@@ -195,6 +195,33 @@ describe('throttles that do not lock people out', () => {
     expect(audit).toEqual([{ outcome: 'denied' }, { outcome: 'denied' }, { outcome: 'denied' }]);
   });
 
+  it('does not let a burst of parallel password-change guesses outrun the counter', async () => {
+    ctx = await createTestContext({ as: 'anonymous' });
+    await ctx.app.auth.createUser('dana', 'dietitian', TEST_PASSWORD);
+    const session = await signIn(ctx.app, 'dana', TEST_PASSWORD);
+    const cookie = session.cookies.find((c) => c.name === 'phl_session')!.value;
+    const csrf = session.json().csrfToken as string;
+    const results = await Promise.all(
+      Array.from({ length: 12 }, (_, i) =>
+        ctx!.app.inject({
+          method: 'PUT',
+          url: '/api/session/password',
+          cookies: { phl_session: cookie },
+          headers: { 'x-csrf-token': csrf },
+          payload: {
+            currentPassword: `parallel guess ${i}`,
+            newPassword: 'a brand new long secret',
+          },
+        }),
+      ),
+    );
+    // at most the account's 5 free failures are checked; the rest are refused unchecked
+    const checked = results.filter((r) => r.statusCode === 401).length;
+    expect(checked).toBeGreaterThan(0);
+    expect(checked).toBeLessThanOrEqual(5);
+    expect(results.filter((r) => r.statusCode === 429)).toHaveLength(12 - checked);
+  });
+
   it('does not lock everyone out when every client comes from the proxy address (no trust setting)', async () => {
     ctx = await createTestContext({ as: 'anonymous' });
     await ctx.app.auth.createUser('dana', 'dietitian', TEST_PASSWORD);
