@@ -401,21 +401,30 @@ export class AuthService {
   /**
    * Creates the first admin with a valid set-up token. The token is consumed in the same
    * transaction that creates the account, so one token makes one admin however many posts race.
+   * A refusal (set-up done, link spent or expired, weak password, name taken) is a value.
    */
-  async completeSetup(token: string, username: string, password: string): Promise<SignedIn> {
+  async trySetup(
+    token: string,
+    username: string,
+    password: string,
+  ): Promise<{ ok: true; signedIn: SignedIn } | { ok: false; error: AppError }> {
+    const refuse = (code: string, status: number, message: string) => ({
+      ok: false as const,
+      error: new AppError(code, status, message),
+    });
     const setupDone = () =>
-      new AppError('PHL_AUTH_SETUP_DONE', 409, 'set-up is already done: sign in instead');
+      refuse('PHL_AUTH_SETUP_DONE', 409, 'set-up is already done: sign in instead');
     const badToken = () =>
-      new AppError(
+      refuse(
         'PHL_AUTH_SETUP_TOKEN_INVALID',
         403,
         'the set-up link is invalid or has expired: restart the server for a new one',
       );
-    if (!(await this.setupNeeded())) throw setupDone();
-    if (!(await this.setupTokenValid(token))) throw badToken();
+    if (!(await this.setupNeeded())) return setupDone();
+    if (!(await this.setupTokenValid(token))) return badToken();
     const name = AuthService.normaliseUsername(username);
     const problem = passwordProblem(password, name);
-    if (problem) throw new AppError('PHL_AUTH_PASSWORD_WEAK', 400, problem);
+    if (problem) return refuse('PHL_AUTH_PASSWORD_WEAK', 400, problem);
     const passwordHash = await hashPassword(password, this.scryptParams);
     const created = await this.repo.consumeSetupTokenForAdmin(
       tokenHash(token),
@@ -423,12 +432,20 @@ export class AuthService {
       { username: name, passwordHash },
     );
     if (!created.ok) {
-      if (created.reason === 'done') throw setupDone();
+      if (created.reason === 'done') return setupDone();
       if (created.reason === 'taken') {
-        throw new AppError('PHL_AUTH_USERNAME_TAKEN', 409, `username ${name} is already taken`);
+        return refuse('PHL_AUTH_USERNAME_TAKEN', 409, `username ${name} is already taken`);
       }
-      throw badToken();
+      return badToken();
     }
-    return this.openSession({ id: created.id, username: name, role: 'admin' });
+    const signedIn = await this.openSession({ id: created.id, username: name, role: 'admin' });
+    return { ok: true, signedIn };
+  }
+
+  /** `trySetup` for callers that answer a refusal with the error handler. */
+  async completeSetup(token: string, username: string, password: string): Promise<SignedIn> {
+    const result = await this.trySetup(token, username, password);
+    if (!result.ok) throw result.error;
+    return result.signedIn;
   }
 }

@@ -160,7 +160,15 @@ export const setupRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthS
           ? 'the two passwords differ'
           : passwordProblem(password, name.data);
       if (problem) return html(reply, 400, formPage(token, problem, username));
-      const signedIn = await auth.completeSetup(token, username, password);
+      // Another post with the same link may have won the race: say so on the page.
+      const result = await auth.trySetup(token, username, password);
+      if (!result.ok) {
+        const { statusCode, message } = result.error;
+        return statusCode === 400
+          ? html(reply, 400, formPage(token, message, username))
+          : html(reply, statusCode, page('Set-up was not done', `<p>${escapeHtml(message)}.</p>`));
+      }
+      const { signedIn } = result;
       setSessionCookie(req, reply, auth.policy, signedIn.token);
       await recordAudit(
         db,
