@@ -36,18 +36,33 @@ declare module 'fastify' {
     ): Promise<void>;
     /** Lets a handler fill in what the route-level audit cannot know (a created id). */
     auditInfo: { patientId?: Id; entityId?: Id; details?: AuditEntry['details'] } | null;
+    /** True once the route's schemas accepted the request (its path ids may be logged). */
+    auditParamsValid: boolean;
   }
 }
 
+/** What a logged id may look like: a number, or a short code (no free text, no markup). */
+const LOGGABLE_ID = /^[A-Za-z0-9][A-Za-z0-9._:-]{0,63}$/;
+
+/**
+ * A path parameter, only once the route's schemas accepted the request and only when it looks
+ * like an id: a refused request's raw path (`/api/patients/<anything>`) is never logged.
+ */
 function param(request: FastifyRequest, name: string | false | undefined): Id {
-  if (!name) return undefined;
+  if (!name || !request.auditParamsValid) return undefined;
   const params = request.params as Record<string, unknown> | undefined;
   const v = params?.[name];
-  return typeof v === 'string' || typeof v === 'number' ? v : undefined;
+  if (typeof v === 'number') return Number.isFinite(v) ? v : undefined;
+  return typeof v === 'string' && LOGGABLE_ID.test(v) ? v : undefined;
 }
 
 export function registerAudit(app: FastifyInstance, deps: { db: Db; clock: Clock }): void {
   app.decorateRequest('auditInfo', null);
+  app.decorateRequest('auditParamsValid', false);
+  // preHandler runs only after the route's schemas accepted params, query and body.
+  app.addHook('preHandler', async (request) => {
+    request.auditParamsValid = true;
+  });
   app.decorateRequest('audit', async function (this: FastifyRequest, action, opts) {
     await recordAudit(
       deps.db,
@@ -75,7 +90,7 @@ export function registerAudit(app: FastifyInstance, deps: { db: Db; clock: Clock
     let patientId: Id = info.patientId ?? param(request, cfg.patientParam ?? 'patientId');
     if (patientId == null && cfg.entity === 'patient') patientId = entityId;
     const status = reply.statusCode;
-    if (patientId == null && cfg.patientOf && status < 500) {
+    if (patientId == null && cfg.patientOf && status < 500 && request.auditParamsValid) {
       patientId = await cfg.patientOf(deps.db, request);
     }
     try {

@@ -77,16 +77,23 @@ const CSV_COLUMNS = [
   'details',
 ] as const;
 
-function csvCell(v: unknown): string {
-  if (v === null || v === undefined) return '';
+/**
+ * A cell that starts a formula once a spreadsheet trims it: after any run of whitespace,
+ * control characters, quotes or separators (`,` `;` tab `|`), one of = + - @ (OWASP "CSV
+ * Injection"; fullwidth forms too, which some spreadsheets fold to ASCII).
+ */
+const FORMULA_START = /^[\s\p{Cc}"',;|\uFEFF]*[=+\-@\uFF1D\uFF0B\uFF0D\uFF20]/u;
+
+/** One CSV cell: always quoted, and a would-be formula made text with a leading apostrophe. */
+export function csvCell(v: unknown): string {
+  if (v === null || v === undefined) return '""';
   let s = typeof v === 'object' ? JSON.stringify(v) : String(v);
-  // Spreadsheet formula injection (OWASP "CSV Injection"): prefix cells that start a formula.
-  if (/^[=+\-@\t\r]/.test(s)) s = `'${s}`;
-  return /[",\n\r]/.test(s) ? `"${s.replaceAll('"', '""')}"` : s;
+  if (FORMULA_START.test(s)) s = `'${s}`;
+  return `"${s.replaceAll('"', '""')}"`;
 }
 
 export function auditCsvHeader(): string {
-  return `${CSV_COLUMNS.join(',')}\r\n`;
+  return `${CSV_COLUMNS.map(csvCell).join(',')}\r\n`;
 }
 
 export function auditCsvLine(e: AuditEvent): string {

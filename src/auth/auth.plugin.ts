@@ -6,6 +6,7 @@ import { AppError } from '../errors.js';
 import {
   CSRF_HEADER,
   DEFAULT_AUTH_POLICY,
+  HOST_COOKIE_PREFIX,
   SESSION_COOKIE,
   type AuthPolicy,
   type AuthUser,
@@ -48,17 +49,42 @@ export interface RouteInfo {
   role: Role | null;
   /** The audit action of `config.audit`, or null when the route declares none. */
   audit: string | null;
+  /** The route's own body limit in bytes, or null when it keeps the server's default. */
+  bodyLimit: number | null;
 }
 
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
+
+function secureCookie(request: FastifyRequest, policy: AuthPolicy): boolean {
+  return policy.secureCookies === 'always' || request.protocol === 'https';
+}
 
 export function sessionCookieOptions(request: FastifyRequest, policy: AuthPolicy) {
   return {
     path: '/',
     httpOnly: true,
     sameSite: 'strict' as const,
-    secure: policy.secureCookies === 'always' || request.protocol === 'https',
+    secure: secureCookie(request, policy),
   };
+}
+
+/**
+ * The session cookie's name: over TLS `__Host-phl_session` (RFC 6265bis 4.1.3.2: the browser
+ * keeps it only when Secure, Path=/ and without Domain, so a neighbouring host or a plain-http
+ * page cannot plant or overwrite it); `phl_session` on plain http to 127.0.0.1.
+ */
+export function sessionCookieName(request: FastifyRequest, policy: AuthPolicy): string {
+  return secureCookie(request, policy) ? `${HOST_COOKIE_PREFIX}${SESSION_COOKIE}` : SESSION_COOKIE;
+}
+
+/** Sets the session cookie under the name the request's transport calls for. */
+export function setSessionCookie(
+  request: FastifyRequest,
+  reply: FastifyReply,
+  policy: AuthPolicy,
+  token: string,
+) {
+  reply.setCookie(sessionCookieName(request, policy), token, sessionCookieOptions(request, policy));
 }
 
 export function clearSessionCookie(
@@ -66,7 +92,7 @@ export function clearSessionCookie(
   reply: FastifyReply,
   policy: AuthPolicy,
 ) {
-  reply.clearCookie(SESSION_COOKIE, sessionCookieOptions(request, policy));
+  reply.clearCookie(sessionCookieName(request, policy), sessionCookieOptions(request, policy));
 }
 
 /** Rejects state-changing requests that a browser sent from another site (login CSRF too). */
@@ -121,6 +147,7 @@ export async function registerAuth(
         public: config?.public === true,
         role: config?.role ?? null,
         audit: config?.audit?.action ?? null,
+        bodyLimit: route.bodyLimit ?? null,
       });
     }
   });
@@ -138,7 +165,8 @@ export async function registerAuth(
 
     // Public page shells and assets never look at the user: spare them the session lookup.
     if (isPublic && !unsafe && !request.url.startsWith('/api/')) return;
-    const token = request.cookies[SESSION_COOKIE];
+    // Over TLS only the __Host- cookie counts: a plain one may have been planted.
+    const token = request.cookies[sessionCookieName(request, policy)];
     if (token) {
       const found = await service.authenticate(token);
       if (found) {

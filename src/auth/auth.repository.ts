@@ -173,6 +173,11 @@ export class AuthRepository {
     await this.db.deleteFrom('sign_in_throttle').where('key', '=', key).execute();
   }
 
+  async clearThrottlesLike(pattern: string): Promise<number> {
+    const r = await this.db.deleteFrom('sign_in_throttle').where('key', 'like', pattern).execute();
+    return Number(r[0]?.numDeletedRows ?? 0);
+  }
+
   // security options kept in the shared `setting` table under keys no settings route serves
   async getOption(key: string): Promise<string | null> {
     const row = await this.db
@@ -212,5 +217,65 @@ export class AuthRepository {
 
   async clearSetupTokens(): Promise<void> {
     await this.db.deleteFrom('setup_token').execute();
+  }
+
+  /**
+   * Consumes a set-up token and creates the first admin in one transaction: the DELETE ...
+   * RETURNING succeeds for one caller only, so parallel posts with one token create one admin.
+   */
+  async consumeSetupTokenForAdmin(
+    tokenHash: string,
+    now: string,
+    admin: { username: string; passwordHash: string },
+  ): Promise<{ ok: true; id: number } | { ok: false; reason: 'done' | 'token' | 'taken' }> {
+    return this.db
+      .transaction()
+      .execute(async (trx) => {
+        const admins = await trx
+          .selectFrom('app_user')
+          .select((eb) => eb.fn.countAll<number>().as('n'))
+          .where('role', '=', 'admin')
+          .where('disabled', '=', 0)
+          .executeTakeFirstOrThrow();
+        if (Number(admins.n) > 0) return { ok: false, reason: 'done' } as const;
+        const consumed = await trx
+          .deleteFrom('setup_token')
+          .where('token_hash', '=', tokenHash)
+          .where('expires_at', '>', now)
+          .returning('token_hash')
+          .executeTakeFirst();
+        if (!consumed) return { ok: false, reason: 'token' } as const;
+        const taken = await trx
+          .selectFrom('app_user')
+          .select('id')
+          .where('username', '=', admin.username)
+          .executeTakeFirst();
+        if (taken) throw new SetupRollback('taken');
+        await trx.deleteFrom('setup_token').execute();
+        const row = await trx
+          .insertInto('app_user')
+          .values({
+            username: admin.username,
+            role: 'admin',
+            password_hash: admin.passwordHash,
+            created_at: now,
+            updated_at: now,
+          })
+          .returning('id')
+          .executeTakeFirstOrThrow();
+        return { ok: true, id: row.id } as const;
+      })
+      .catch((err: unknown) => {
+        // A taken username keeps the token: the person may try again with another name.
+        if (err instanceof SetupRollback) return { ok: false, reason: err.reason } as const;
+        throw err;
+      });
+  }
+}
+
+/** Thrown inside the set-up transaction to roll the token's consumption back. */
+class SetupRollback extends Error {
+  constructor(readonly reason: 'taken') {
+    super(reason);
   }
 }

@@ -5,9 +5,10 @@ import { recordAudit } from '../audit/audit.service.js';
 import type { Clock } from '../clock.js';
 import type { Db } from '../db/database.js';
 import { AppError } from '../errors.js';
-import { roleSchema, signInBodySchema, SESSION_COOKIE, userJsonSchema } from './auth.js';
-import { clearSessionCookie, sessionCookieOptions } from './auth.plugin.js';
+import { roleSchema, signInBodySchema, userJsonSchema } from './auth.js';
+import { clearSessionCookie, setSessionCookie } from './auth.plugin.js';
 import type { AuthService, SignedIn } from './auth.service.js';
+import { PUBLIC_AUTH_BODY_LIMIT_BYTES } from '../server/body-limits.js';
 import { MAX_PASSWORD_LENGTH } from './password.js';
 
 const sessionJsonSchema = z.object({
@@ -46,6 +47,7 @@ export const authRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthSe
   api.post(
     '/session',
     {
+      bodyLimit: PUBLIC_AUTH_BODY_LIMIT_BYTES,
       config: { public: true },
       schema: {
         tags: ['accounts'],
@@ -72,7 +74,7 @@ export const authRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthSe
         throw err;
       }
       if (req.authSession) await auth.signOut(req.authSession); // no session fixation
-      reply.setCookie(SESSION_COOKIE, signedIn.token, sessionCookieOptions(req, auth.policy));
+      setSessionCookie(req, reply, auth.policy, signedIn.token);
       await audit({
         userId: signedIn.user.id,
         username: signedIn.user.username,
@@ -125,6 +127,7 @@ export const authRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthSe
   api.put(
     '/session/password',
     {
+      bodyLimit: PUBLIC_AUTH_BODY_LIMIT_BYTES,
       schema: {
         tags: ['accounts'],
         summary: 'Change your own password; signs out every other session',
@@ -133,13 +136,26 @@ export const authRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthSe
     },
     async (req, reply) => {
       const user = req.user!;
-      if (!(await auth.checkPassword(user.id, req.body.currentPassword))) {
-        throw new AppError('PHL_AUTH_INVALID_CREDENTIALS', 401, 'current password is wrong');
+      try {
+        await auth.checkCurrentPassword(user, req.body.currentPassword, req.authSession!);
+      } catch (err) {
+        // Recorded like a failed sign-in; a session ended for guessing loses its cookie.
+        const code = err instanceof AppError ? err.code : 'PHL_INTERNAL';
+        if (code === 'PHL_AUTH_SESSION_ENDED') clearSessionCookie(req, reply, auth.policy);
+        await audit({
+          userId: user.id,
+          action: 'user.password-change',
+          entity: 'user',
+          entityId: user.id,
+          outcome: 'denied',
+          details: { reason: code },
+        });
+        throw err;
       }
       await auth.setPassword(user.id, req.body.newPassword);
       await auth.signOutEverywhere(user.id);
       const fresh = await auth.openSession(user);
-      reply.setCookie(SESSION_COOKIE, fresh.token, sessionCookieOptions(req, auth.policy));
+      setSessionCookie(req, reply, auth.policy, fresh.token);
       await audit({
         userId: user.id,
         action: 'user.password-change',

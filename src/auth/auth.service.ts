@@ -11,7 +11,14 @@ import {
   verifyPassword,
   type ScryptParams,
 } from './password.js';
-import { activeFailures, afterFailure, lockedUntil, type ThrottleState } from './throttle.js';
+import {
+  activeFailures,
+  afterFailure,
+  mayAttempt,
+  type ThrottleRule,
+  type ThrottleState,
+} from './throttle.js';
+import { isLoopbackAddress } from './addresses.js';
 import { newToken, tokenHash } from './tokens.js';
 
 /** A live session as the auth hook sees it. The token itself is never stored. */
@@ -139,16 +146,42 @@ export class AuthService {
     await this.repo.updateUser(id, { passwordHash }, this.now().toISOString());
   }
 
-  /** Checks a user's current password (for password change); no throttling beyond the session. */
-  async checkPassword(id: number, password: string): Promise<boolean> {
-    const row = await this.repo.findUser(id);
-    return row ? verifyPassword(password, row.password_hash) : false;
+  /**
+   * Checks the current password on password change. Wrong answers count as sign-in failures of
+   * the account (so guessing here is throttled like signing in), a locked account is refused,
+   * and after `passwordChangeFailureLimit` failures the session that guessed is ended.
+   */
+  async checkCurrentPassword(user: AuthUser, password: string, session: ActiveSession) {
+    const key = `user:${user.username}`;
+    const rule = this.rules().user;
+    const now = this.now();
+    this.refuseIfLocked(key, toState(await this.repo.findThrottle(key)), now, rule);
+    const ok = await this.whileChecking([key], async () => {
+      const row = await this.repo.findUser(user.id);
+      return !!row && (await verifyPassword(password, row.password_hash));
+    });
+    if (ok) return;
+    const after = await this.recordFailure(key, rule);
+    if (activeFailures(after, this.now(), rule) >= this.policy.passwordChangeFailureLimit) {
+      await this.signOut(session);
+      throw new AuthError(
+        'PHL_AUTH_SESSION_ENDED',
+        401,
+        'current password wrong too many times: you have been signed out',
+      );
+    }
+    throw new AuthError('PHL_AUTH_INVALID_CREDENTIALS', 401, 'current password is wrong');
   }
 
   private rules() {
     const p = this.policy;
     return {
-      user: { limit: p.userFailureLimit, windowMs: p.failureWindowMs, lockoutMs: p.lockoutMs },
+      user: {
+        limit: p.userFailureLimit,
+        windowMs: p.userFailureWindowMs,
+        lockoutMs: p.userLockoutMs,
+        maxLockoutMs: p.userLockoutMaxMs,
+      },
       address: {
         limit: p.addressFailureLimit,
         windowMs: p.failureWindowMs,
@@ -157,7 +190,7 @@ export class AuthService {
     };
   }
 
-  private async recordFailure(key: string, rule: ReturnType<AuthService['rules']>['user']) {
+  private async recordFailure(key: string, rule: ThrottleRule): Promise<ThrottleState> {
     const now = this.now();
     const next = afterFailure(toState(await this.repo.findThrottle(key)), now, rule);
     await this.repo.saveThrottle({
@@ -166,60 +199,89 @@ export class AuthService {
       window_started_at: next.windowStartedAt.toISOString(),
       locked_until: next.lockedUntil?.toISOString() ?? null,
     });
+    return next;
   }
 
   /**
-   * Signs in. Unknown usernames cost the same scrypt work as known ones and count towards
-   * lock-out the same way, so neither timing nor lock-out tells which accounts exist.
+   * Runs a password check counted as in flight for the keys: attempts still being checked count
+   * as failures, so a burst of parallel guesses cannot outrun the counter.
    */
-  async signIn(username: string, password: string, address: string): Promise<SignedIn> {
-    const name = username.trim().toLowerCase();
-    const keys = { user: `user:${name}`, address: `ip:${address}` };
-    const rules = this.rules();
-    const now = this.now();
-    const throttles = {
-      user: toState(await this.repo.findThrottle(keys.user)),
-      address: toState(await this.repo.findThrottle(keys.address)),
-    };
-    for (const which of ['user', 'address'] as const) {
-      const key = keys[which];
-      const until = lockedUntil(throttles[which], now);
-      // Attempts still being checked count too, so a burst cannot outrun the counter.
-      const pending = this.inFlight.get(key) ?? 0;
-      const counted = activeFailures(throttles[which], now, rules[which]) + pending;
-      if (until || counted >= rules[which].limit) {
-        const retryAfterS = until ? Math.ceil((until.getTime() - now.getTime()) / 1000) : 1;
-        throw new AuthError(
-          'PHL_AUTH_LOCKED',
-          429,
-          'too many failed sign-ins: try again later or ask the clinic admin',
-          { retryAfterS },
-        );
-      }
-    }
+  private async whileChecking<T>(keys: string[], check: () => Promise<T>): Promise<T> {
     const bump = (d: number) => {
-      for (const key of [keys.user, keys.address]) {
+      for (const key of keys) {
         const n = (this.inFlight.get(key) ?? 0) + d;
         if (n > 0) this.inFlight.set(key, n);
         else this.inFlight.delete(key);
       }
     };
     bump(1);
-    let row;
-    let ok: boolean;
     try {
-      row = await this.repo.findUserByName(name);
-      this.dummyHash ??= hashPassword('not a real password', this.scryptParams);
-      ok = await verifyPassword(password, row?.password_hash ?? (await this.dummyHash));
+      return await check();
     } finally {
       bump(-1);
     }
+  }
+
+  private refuseIfLocked(
+    key: string,
+    state: ThrottleState | undefined,
+    now: Date,
+    rule: ThrottleRule,
+  ): void {
+    const verdict = mayAttempt(state, now, rule, this.inFlight.get(key) ?? 0);
+    if (verdict.ok) return;
+    throw new AuthError(
+      'PHL_AUTH_LOCKED',
+      429,
+      'too many failed sign-ins: try again later or ask the clinic admin',
+      { retryAfterS: Math.max(1, Math.ceil(verdict.retryAfterMs / 1000)) },
+    );
+  }
+
+  /** Clears a username's failures and lock (`phosledger users unlock`). True if it had any. */
+  async unlockUser(username: string): Promise<boolean> {
+    const key = `user:${username.trim().toLowerCase()}`;
+    const had = (await this.repo.findThrottle(key)) !== undefined;
+    await this.repo.clearThrottle(key);
+    return had;
+  }
+
+  /** Clears every address lock (`phosledger users unlock --addresses`). Returns how many. */
+  async unlockAddresses(): Promise<number> {
+    return this.repo.clearThrottlesLike('ip:%');
+  }
+
+  /**
+   * Signs in. Unknown usernames cost the same scrypt work as known ones and count towards
+   * lock-out the same way, so neither timing nor lock-out tells which accounts exist. Loopback
+   * addresses are not throttled as addresses (behind a proxy every client shares one).
+   */
+  async signIn(username: string, password: string, address: string): Promise<SignedIn> {
+    const name = username.trim().toLowerCase();
+    const rules = this.rules();
+    const now = this.now();
+    const checks: Array<{ key: string; rule: ThrottleRule }> = [
+      { key: `user:${name}`, rule: rules.user },
+    ];
+    if (!isLoopbackAddress(address)) checks.push({ key: `ip:${address}`, rule: rules.address });
+    for (const { key, rule } of checks) {
+      this.refuseIfLocked(key, toState(await this.repo.findThrottle(key)), now, rule);
+    }
+    const keys = checks.map((c) => c.key);
+    const { row, ok } = await this.whileChecking(keys, async () => {
+      const found = await this.repo.findUserByName(name);
+      this.dummyHash ??= hashPassword('not a real password', this.scryptParams);
+      const matches = await verifyPassword(
+        password,
+        found?.password_hash ?? (await this.dummyHash),
+      );
+      return { row: found, ok: matches };
+    });
     if (!row || !ok || row.disabled === 1) {
-      await this.recordFailure(keys.user, rules.user);
-      await this.recordFailure(keys.address, rules.address);
+      for (const { key, rule } of checks) await this.recordFailure(key, rule);
       throw invalidCredentials();
     }
-    await this.repo.clearThrottle(keys.user);
+    await this.repo.clearThrottle(`user:${name}`);
     const at = this.now().toISOString();
     const rehash = needsRehash(row.password_hash, this.scryptParams)
       ? await hashPassword(password, this.scryptParams)
@@ -336,20 +398,54 @@ export class AuthService {
     return !!row && Date.parse(row.expires_at) > this.now().getTime();
   }
 
-  /** Creates the first admin with a valid set-up token and consumes the token. */
-  async completeSetup(token: string, username: string, password: string): Promise<SignedIn> {
-    if (!(await this.setupNeeded())) {
-      throw new AppError('PHL_AUTH_SETUP_DONE', 409, 'set-up is already done: sign in instead');
-    }
-    if (!(await this.setupTokenValid(token))) {
-      throw new AppError(
+  /**
+   * Creates the first admin with a valid set-up token. The token is consumed in the same
+   * transaction that creates the account, so one token makes one admin however many posts race.
+   * A refusal (set-up done, link spent or expired, weak password, name taken) is a value.
+   */
+  async trySetup(
+    token: string,
+    username: string,
+    password: string,
+  ): Promise<{ ok: true; signedIn: SignedIn } | { ok: false; error: AppError }> {
+    const refuse = (code: string, status: number, message: string) => ({
+      ok: false as const,
+      error: new AppError(code, status, message),
+    });
+    const setupDone = () =>
+      refuse('PHL_AUTH_SETUP_DONE', 409, 'set-up is already done: sign in instead');
+    const badToken = () =>
+      refuse(
         'PHL_AUTH_SETUP_TOKEN_INVALID',
         403,
         'the set-up link is invalid or has expired: restart the server for a new one',
       );
+    if (!(await this.setupNeeded())) return setupDone();
+    if (!(await this.setupTokenValid(token))) return badToken();
+    const name = AuthService.normaliseUsername(username);
+    const problem = passwordProblem(password, name);
+    if (problem) return refuse('PHL_AUTH_PASSWORD_WEAK', 400, problem);
+    const passwordHash = await hashPassword(password, this.scryptParams);
+    const created = await this.repo.consumeSetupTokenForAdmin(
+      tokenHash(token),
+      this.now().toISOString(),
+      { username: name, passwordHash },
+    );
+    if (!created.ok) {
+      if (created.reason === 'done') return setupDone();
+      if (created.reason === 'taken') {
+        return refuse('PHL_AUTH_USERNAME_TAKEN', 409, `username ${name} is already taken`);
+      }
+      return badToken();
     }
-    const user = await this.createUser(username, 'admin', password);
-    await this.repo.clearSetupTokens();
-    return this.openSession(user);
+    const signedIn = await this.openSession({ id: created.id, username: name, role: 'admin' });
+    return { ok: true, signedIn };
+  }
+
+  /** `trySetup` for callers that answer a refusal with the error handler. */
+  async completeSetup(token: string, username: string, password: string): Promise<SignedIn> {
+    const result = await this.trySetup(token, username, password);
+    if (!result.ok) throw result.error;
+    return result.signedIn;
   }
 }

@@ -37,13 +37,24 @@ export interface AuthPolicy {
   idleTimeoutMs: number;
   /** Session ends this long after sign-in whatever happens (ASVS V3.3.2, level 2: 12 h; from memory). */
   absoluteTimeoutMs: number;
-  /** Consecutive failures on one username before it is locked (ASVS V2.2.1 anti-automation; from memory). */
+  /** Consecutive failures on one username before back-off starts (ASVS V2.2.1 anti-automation; from memory). */
   userFailureLimit: number;
-  /** Failures from one address within the window before the address is locked. */
+  /** First lock of a username at the limit; each further failure doubles it up to the cap. */
+  userLockoutMs: number;
+  /** Longest lock of a username: the only admin is never locked out for longer than this. */
+  userLockoutMaxMs: number;
+  /** A username's failures are forgotten this long after its last failure (or at a good sign-in). */
+  userFailureWindowMs: number;
+  /**
+   * Failures from one address within the window before the address is locked. Loopback
+   * addresses are not counted: behind a proxy every client looks like 127.0.0.1.
+   */
   addressFailureLimit: number;
-  /** Window over which failures are counted, and length of a lock-out. */
+  /** Window over which an address's failures are counted, and length of its lock. */
   failureWindowMs: number;
   lockoutMs: number;
+  /** Wrong current passwords on password change (counted with sign-in failures) that end the session. */
+  passwordChangeFailureLimit: number;
   /** How old `last_seen_at` may get before a request writes it again (limits writes). */
   touchIntervalMs: number;
   /** Validity of the first-run set-up link. */
@@ -60,13 +71,20 @@ export const DEFAULT_AUTH_POLICY: AuthPolicy = Object.freeze({
   idleTimeoutMs: 30 * MINUTE,
   absoluteTimeoutMs: 12 * 60 * MINUTE,
   userFailureLimit: 5, // common practice, no source (ASVS asks for < 100 per hour)
+  // 1, 2, 4, 8 then 15 min: at most 4 + ~4 guesses an hour (common practice, no source)
+  userLockoutMs: MINUTE,
+  userLockoutMaxMs: 15 * MINUTE,
+  userFailureWindowMs: 60 * MINUTE,
   addressFailureLimit: 30, // common practice, no source
   failureWindowMs: 15 * MINUTE,
   lockoutMs: 15 * MINUTE,
+  passwordChangeFailureLimit: 3, // common practice, no source
   touchIntervalMs: MINUTE,
   setupTokenTtlMs: 24 * 60 * MINUTE,
   secureCookies: 'auto',
 });
 
 export const SESSION_COOKIE = 'phl_session';
+/** Cookie-name prefix browsers enforce Secure, Path=/ and no Domain for (RFC 6265bis). */
+export const HOST_COOKIE_PREFIX = '__Host-';
 export const CSRF_HEADER = 'x-csrf-token';

@@ -1,4 +1,17 @@
 import { randomBytes, scrypt, timingSafeEqual, type ScryptOptions } from 'node:crypto';
+import { dictionary } from '@zxcvbn-ts/language-common';
+import { commonPasswordProblem } from './password-rules.js';
+
+/**
+ * Passwords seen most often in breach corpuses: the `passwords-common` list of
+ * @zxcvbn-ts/language-common 4.1.3 (MIT licence, https://github.com/zxcvbn-ts/zxcvbn), 49,233
+ * lower-case entries ranked by frequency. Kept on disk in node_modules: no network look-up.
+ */
+let commonPasswords: ReadonlySet<string> | undefined;
+export function commonPasswordList(): ReadonlySet<string> {
+  commonPasswords ??= new Set(dictionary['passwords-common'].map((p) => p.toLowerCase()));
+  return commonPasswords;
+}
 
 /**
  * Password hashing with scrypt (RFC 7914). Parameters are one of the equivalent minimum sets of
@@ -94,7 +107,10 @@ export function needsRehash(stored: string, params: ScryptParams = DEFAULT_SCRYP
   return parsed.params.N < params.N || parsed.params.r < params.r || parsed.params.p < params.p;
 }
 
-/** Why a new password is refused, or null when it is acceptable. */
+/**
+ * Why a new password is refused, or null when it is acceptable: the length rule, the username,
+ * then the NIST SP 800-63B 5.1.1.2 checks (breached and common passwords, trivial patterns).
+ */
 export function passwordProblem(password: string, username: string): string | null {
   const length = [...password].length;
   if (length < MIN_PASSWORD_LENGTH)
@@ -103,5 +119,5 @@ export function passwordProblem(password: string, username: string): string | nu
     return `password must be at most ${MAX_PASSWORD_LENGTH} characters`;
   if (password.toLowerCase().includes(username.toLowerCase()))
     return 'password must not contain the username';
-  return null;
+  return commonPasswordProblem(password, commonPasswordList());
 }

@@ -4,9 +4,10 @@ import { z } from 'zod';
 import { recordAudit } from '../audit/audit.service.js';
 import type { Clock } from '../clock.js';
 import type { Db } from '../db/database.js';
-import { SESSION_COOKIE, usernameSchema } from './auth.js';
-import { sessionCookieOptions } from './auth.plugin.js';
+import { usernameSchema } from './auth.js';
+import { setSessionCookie } from './auth.plugin.js';
 import type { AuthService } from './auth.service.js';
+import { PUBLIC_AUTH_BODY_LIMIT_BYTES } from '../server/body-limits.js';
 import { MAX_PASSWORD_LENGTH, passwordProblem } from './password.js';
 
 function escapeHtml(s: string): string {
@@ -16,31 +17,72 @@ function escapeHtml(s: string): string {
   );
 }
 
+/**
+ * The set-up screens share the consult screens' stylesheet and frame (top bar, card, footer)
+ * and work without script: a plain form post.
+ */
 function page(title: string, body: string): string {
   return `<!doctype html>
-<html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
-<title>${escapeHtml(title)} - phosledger</title></head>
-<body><main><h1>${escapeHtml(title)}</h1>${body}</main></body></html>
+<html lang="en">
+<head>
+<meta charset="utf-8">
+<meta name="viewport" content="width=device-width, initial-scale=1">
+<title>${escapeHtml(title)} · phosledger</title>
+<link rel="icon" href="data:,">
+<link rel="stylesheet" href="/assets/app.css">
+</head>
+<body>
+<a class="skip" href="#main">Skip to content</a>
+<header class="topbar">
+  <a class="wordmark" href="/"><span class="wordmark-p" aria-hidden="true">P</span>phosledger</a>
+</header>
+<main id="main" tabindex="-1">
+<section class="signin card" aria-labelledby="setup-h">
+<h1 id="setup-h">${escapeHtml(title)}</h1>
+${body}
+</section>
+</main>
+<footer class="foot"><p>phosledger estimates; it does not prescribe. Every figure is for the care team to check against local guidance.</p></footer>
+</body>
+</html>
 `;
 }
 
 function formPage(token: string, message: string | null, username = ''): string {
   return page(
     'Create the clinic admin account',
-    `<p>This link works once. The admin account manages dietitian accounts and reads the audit log.</p>
-${message ? `<p role="alert"><strong>${escapeHtml(message)}</strong></p>` : ''}
-<form method="post" action="/setup">
+    `<p class="muted">This link works once. The admin account manages dietitian accounts, the clinic settings and reads the audit log.</p>
+<form id="setup-form" method="post" action="/setup">
 <input type="hidden" name="token" value="${escapeHtml(token)}">
-<p><label>Username <input name="username" autocomplete="username" required value="${escapeHtml(username)}"></label></p>
-<p><label>Password (at least 12 characters) <input type="password" name="password" autocomplete="new-password" required></label></p>
-<p><label>Password again <input type="password" name="password2" autocomplete="new-password" required></label></p>
-<p><button type="submit">Create admin</button></p>
+<div class="field">
+  <label for="setup-username">Username</label>
+  <input id="setup-username" name="username" autocomplete="username" required value="${escapeHtml(username)}">
+</div>
+<div class="field">
+  <label for="setup-password">Password (at least 12 characters; a few unrelated words work well)</label>
+  <input id="setup-password" type="password" name="password" autocomplete="new-password" required>
+</div>
+<div class="field">
+  <label for="setup-password2">Password again</label>
+  <input id="setup-password2" type="password" name="password2" autocomplete="new-password" required>
+</div>
+<button class="btn btn-primary" type="submit">Create admin</button>
+<div class="status${message ? ' error' : ''}" id="setup-status" role="status" aria-live="polite">${message ? escapeHtml(message) : ''}</div>
 </form>`,
   );
 }
 
+/**
+ * The set-up pages send their origin with the form post (`same-origin` referrer policy): under
+ * the site-wide `no-referrer` a browser posts with `Origin: null`, which the cross-site check
+ * must refuse. The page links nowhere else, so nothing leaves with it.
+ */
 const html = (reply: FastifyReply, status: number, body: string) =>
-  reply.status(status).type('text/html; charset=utf-8').send(body);
+  reply
+    .status(status)
+    .header('referrer-policy', 'same-origin')
+    .type('text/html; charset=utf-8')
+    .send(body);
 
 /**
  * First-run set-up: while no admin exists, the server prints a one-time link
@@ -52,7 +94,7 @@ export const setupRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthS
 ) => {
   app.addContentTypeParser(
     'application/x-www-form-urlencoded',
-    { parseAs: 'string', bodyLimit: 16 * 1024 },
+    { parseAs: 'string', bodyLimit: PUBLIC_AUTH_BODY_LIMIT_BYTES },
     (_req, body, done) => {
       done(null, Object.fromEntries(new URLSearchParams(body as string)));
     },
@@ -77,7 +119,7 @@ export const setupRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthS
           403,
           page(
             'This set-up link is not valid',
-            '<p>It has been used or has expired. Restart the server to print a new link, or run <code>phosledger users add NAME --role admin</code>.</p>',
+            '<p>It has been used or has expired. Restart the server to print a new link, or run <code>phosledger users add NAME --role admin</code> on the server.</p>',
           ),
         );
       }
@@ -94,7 +136,11 @@ export const setupRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthS
 
   api.post(
     '/setup',
-    { config: { public: true }, schema: { hide: true, body: formSchema } },
+    {
+      bodyLimit: PUBLIC_AUTH_BODY_LIMIT_BYTES,
+      config: { public: true },
+      schema: { hide: true, body: formSchema },
+    },
     async (req, reply) => {
       const { token, username, password, password2 } = req.body;
       if (!(await auth.setupNeeded())) {
@@ -114,8 +160,16 @@ export const setupRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthS
           ? 'the two passwords differ'
           : passwordProblem(password, name.data);
       if (problem) return html(reply, 400, formPage(token, problem, username));
-      const signedIn = await auth.completeSetup(token, username, password);
-      reply.setCookie(SESSION_COOKIE, signedIn.token, sessionCookieOptions(req, auth.policy));
+      // Another post with the same link may have won the race: say so on the page.
+      const result = await auth.trySetup(token, username, password);
+      if (!result.ok) {
+        const { statusCode, message } = result.error;
+        return statusCode === 400
+          ? html(reply, 400, formPage(token, message, username))
+          : html(reply, statusCode, page('Set-up was not done', `<p>${escapeHtml(message)}.</p>`));
+      }
+      const { signedIn } = result;
+      setSessionCookie(req, reply, auth.policy, signedIn.token);
       await recordAudit(
         db,
         {
@@ -131,7 +185,7 @@ export const setupRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthS
         201,
         page(
           'Admin account created',
-          `<p>You are signed in as ${escapeHtml(signedIn.user.username)}. <a href="/">Open phosledger</a>.</p>`,
+          `<p>You are signed in as ${escapeHtml(signedIn.user.username)}. <a class="btn btn-primary" href="/patients">Open phosledger</a></p>`,
         ),
       );
     },
@@ -149,6 +203,7 @@ export const setupRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthS
   api.post(
     '/api/setup',
     {
+      bodyLimit: PUBLIC_AUTH_BODY_LIMIT_BYTES,
       config: { public: true },
       schema: {
         tags: ['accounts'],
@@ -166,7 +221,7 @@ export const setupRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthS
         req.body.username,
         req.body.password,
       );
-      reply.setCookie(SESSION_COOKIE, signedIn.token, sessionCookieOptions(req, auth.policy));
+      setSessionCookie(req, reply, auth.policy, signedIn.token);
       await recordAudit(
         db,
         {

@@ -1,5 +1,6 @@
 import { readFileSync } from 'node:fs';
 import type { FastifyInstance } from 'fastify';
+import { isLoopbackAddress } from './addresses.js';
 import { announceSetup } from './setup.routes.js';
 
 export interface TlsFiles {
@@ -23,8 +24,7 @@ export function loadTls(files: TlsFiles): { cert: Buffer; key: Buffer } | undefi
 
 /** True for addresses only this machine can reach. */
 export function isLoopback(host: string): boolean {
-  const h = host.replace(/^\[|\]$/g, '').toLowerCase();
-  return h === 'localhost' || h === '::1' || /^127\.\d+\.\d+\.\d+$/.test(h);
+  return isLoopbackAddress(host);
 }
 
 /**
@@ -62,4 +62,24 @@ export function trustProxyFromEnv(env: NodeJS.ProcessEnv): boolean {
   if (v === undefined || v === '' || v === '0' || v === 'false') return false;
   if (v === '1' || v === 'true') return true;
   throw new Error('invalid environment variable PHOSLEDGER_TRUST_PROXY: use 1 or 0');
+}
+
+/**
+ * What the proxy setting does, printed at every start: sign-in limits per address and Secure
+ * cookies depend on it, and a wrong setting either locks everyone together or lets a client
+ * claim any address.
+ */
+export function proxyNotice(trustProxy: boolean): string {
+  return trustProxy
+    ? [
+        'PHOSLEDGER_TRUST_PROXY=1: X-Forwarded-For and X-Forwarded-Proto are believed from',
+        '127.0.0.1 and ::1 only (the TLS proxy on this machine). Sign-in limits per address see the',
+        "clients' own addresses; cookies are Secure when the proxy says the request came over HTTPS.",
+      ].join('\n')
+    : [
+        'PHOSLEDGER_TRUST_PROXY is off: each client is known by its connection address. Behind a',
+        'proxy every client would look like 127.0.0.1, so loopback addresses get no per-address',
+        'sign-in limit (per-account back-off still applies). With a TLS proxy on this machine, set',
+        'PHOSLEDGER_TRUST_PROXY=1. A locked account: phosledger users unlock <name>.',
+      ].join('\n');
 }

@@ -179,4 +179,48 @@ export const usersDisable: Command = {
   },
 };
 
-export const userCommands: Command[] = [usersAdd, usersList, usersPassword, usersDisable];
+export const usersUnlock: Command = {
+  path: ['users', 'unlock'],
+  usage: '<username> | --addresses',
+  summary:
+    "clear an account's failed sign-ins and lock (or every address lock): the admin's way back in",
+  options: { addresses: { type: 'boolean' } },
+  async run(ctx) {
+    const auth = await service(ctx);
+    const actor = cliActor();
+    if (ctx.args.values.addresses) {
+      const n = await auth.unlockAddresses();
+      await recordAudit(await ctx.db(), {
+        userId: actor.userId,
+        username: actor.username,
+        action: 'security.unlock-addresses',
+        entity: 'session',
+        details: { addresses: n },
+      });
+      ctx.stdout.write(`${n} address lock(s) cleared\n`);
+      return;
+    }
+    const name = ctx.args.positionals[0];
+    if (!name) throw new UsageError('give a username, or --addresses');
+    try {
+      const user = await findByName(auth, ctx);
+      const had = await auth.unlockUser(user.username);
+      await audit(ctx, 'user.unlock', user.id, { hadFailures: had });
+      ctx.stdout.write(
+        had
+          ? `${user.username} unlocked: failed sign-ins cleared\n`
+          : `${user.username} had no failed sign-ins\n`,
+      );
+    } catch (err) {
+      return failIfAppError(ctx, err);
+    }
+  },
+};
+
+export const userCommands: Command[] = [
+  usersAdd,
+  usersList,
+  usersPassword,
+  usersDisable,
+  usersUnlock,
+];

@@ -1,9 +1,13 @@
-import { existsSync, renameSync, rmSync, statSync } from 'node:fs';
+import { chmodSync, closeSync, existsSync, openSync, renameSync, rmSync, statSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 import Database from 'better-sqlite3';
 import { migrations } from '../../migrations/index.js';
 import type { Clock } from '../clock.js';
 import { migrateToLatest, openDb } from '../db/database.js';
+import { acquireDbLock } from '../server/db-lock.js';
+import { PRIVATE_FILE_MODE, ensurePrivateFile } from '../server/private-files.js';
+import { schemaDifferences } from './schema-check.js';
+import { readBackupKey, signBackup, verifyBackup } from './signature.js';
 
 /** What a check of a database file found: usable, or why not. */
 export type DatabaseCheck =
@@ -81,19 +85,23 @@ interface BackupSource {
 /**
  * Copies a database with SQLite's online backup API (safe while the server keeps writing: the
  * copy is one consistent snapshot). Writes `<file>.partial` first and renames it when the copy
- * passes its checks, so a failed backup never leaves a file that looks complete.
+ * passes its checks, so a failed backup never leaves a file that looks complete. The copy is
+ * 0600 and, given the installation's key, signed (`<file>.sig`) so a restore can trust it.
  */
 export async function backupDatabase(
   source: BackupSource,
   file: string,
-  opts: { overwrite?: boolean } = {},
-): Promise<{ pages: number; bytes: number }> {
+  opts: { overwrite?: boolean; key?: Buffer } = {},
+): Promise<{ pages: number; bytes: number; signature: string | null }> {
   if (existsSync(file) && !opts.overwrite) {
     throw new Error(`${file} exists: choose a new name (backups are never overwritten silently)`);
   }
   if (!existsSync(dirname(file) || '.')) throw new Error(`folder ${dirname(file)} does not exist`);
   const partial = `${file}.partial`;
   rmSync(partial, { force: true });
+  // SQLite writes into the empty file and keeps its mode: private from the first byte.
+  closeSync(openSync(partial, 'wx', PRIVATE_FILE_MODE));
+  chmodSync(partial, PRIVATE_FILE_MODE);
   try {
     // After the first small steps, copy everything in one step: one read snapshot, so a
     // busy server cannot keep restarting the copy.
@@ -108,7 +116,8 @@ export async function backupDatabase(
     const check = checkDatabaseFile(partial);
     if (!check.ok) throw new Error(`the copy failed its check: ${check.problems.join('; ')}`);
     renameSync(partial, file);
-    return { pages: result.totalPages, bytes: statSync(file).size };
+    const signature = opts.key ? await signBackup(file, opts.key) : null;
+    return { pages: result.totalPages, bytes: statSync(file).size, signature };
   } finally {
     rmSync(partial, { force: true });
   }
@@ -121,30 +130,65 @@ export interface RestoreResult {
   bytes: number;
 }
 
+/** Every reason to refuse a backup before touching the live database, or none. */
+export async function restoreProblems(file: string, target: string): Promise<string[]> {
+  if (!existsSync(file)) return [`${file}: no such file`];
+  const key = readBackupKey(target);
+  const unsigned = await verifyBackup(file, key);
+  if (unsigned) return [unsigned];
+  const check = checkDatabaseFile(file);
+  if (!check.ok) return check.problems;
+  const schema = await schemaDifferences(file);
+  if (schema.length > 0) {
+    return [
+      `its schema is not the one phosledger's migrations make: ${schema.slice(0, 10).join('; ')}`,
+    ];
+  }
+  return [];
+}
+
 /**
- * Replaces the database at `target` with the checked backup `file`. The current database is
- * first copied aside (`<target>.before-restore-<time>`); the backup is then written into the
- * target with the backup API (which takes SQLite's locks, so it never mixes with a half-written
- * page) and brought up to this program's schema.
+ * Replaces the database at `target` with the backup `file`, which must carry a valid signature
+ * under this installation's key, pass the integrity checks and hold exactly the schema the
+ * migrations make. Refused while a server (or another restore) holds the database's lock. The
+ * current database is first copied aside (`<target>.before-restore-<time>`, signed, 0600); the
+ * backup is then written into the target with the backup API and brought up to this program's
+ * schema.
  */
 export async function restoreDatabase(
   file: string,
   target: string,
   clock: Clock,
 ): Promise<RestoreResult> {
-  const check = checkDatabaseFile(file);
-  if (!check.ok) throw new Error(`${file} was not restored: ${check.problems.join('; ')}`);
+  const refused = (why: string) => new Error(`${file} was not restored: ${why}`);
+  let problems: string[];
+  try {
+    problems = await restoreProblems(file, target);
+  } catch (err) {
+    problems = [(err as Error).message];
+  }
+  if (problems.length > 0) throw refused(problems.join('; '));
+  const release = acquireDbLock(target, 'restore', clock.now());
+  try {
+    return await replaceDatabase(file, target, clock);
+  } finally {
+    release();
+  }
+}
+
+async function replaceDatabase(file: string, target: string, clock: Clock): Promise<RestoreResult> {
   let safetyCopy: string | null = null;
   if (existsSync(target)) {
     const stamp = clock.now().toISOString().replace(/[:.]/g, '-');
     safetyCopy = join(dirname(target), `${basename(target)}.before-restore-${stamp}`);
     const live = new Database(target, { fileMustExist: true });
     try {
-      await backupDatabase(live, safetyCopy);
+      await backupDatabase(live, safetyCopy, { key: readBackupKey(target) });
     } finally {
       live.close();
     }
   }
+  ensurePrivateFile(target);
   const source = new Database(file, { readonly: true, fileMustExist: true });
   try {
     await source.backup(target, { progress: () => 0x7fffffff });

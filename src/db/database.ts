@@ -1,4 +1,4 @@
-import { mkdirSync } from 'node:fs';
+import { closeSync, mkdirSync, openSync } from 'node:fs';
 import { dirname } from 'node:path';
 import Database from 'better-sqlite3';
 import { LRUCache } from 'lru-cache';
@@ -14,9 +14,16 @@ export interface Db {
   close(): Promise<void>;
 }
 
-/** Opens (creating the folder if needed) a SQLite file or ':memory:' with WAL and foreign keys. */
+/**
+ * Opens (creating the folder if needed) a SQLite file or ':memory:' with WAL and foreign keys.
+ * A new folder is made 0700 and a new file 0600 (health information); SQLite gives the WAL and
+ * SHM the database file's mode.
+ */
 export function openDb(file: string): Db {
-  if (file !== ':memory:') mkdirSync(dirname(file), { recursive: true });
+  if (file !== ':memory:') {
+    mkdirSync(dirname(file), { recursive: true, mode: 0o700 });
+    closeSync(openSync(file, 'a', 0o600)); // the mode applies only when the file is created
+  }
   const sqlite = new Database(file);
   if (file !== ':memory:') sqlite.pragma('journal_mode = WAL');
   sqlite.pragma('foreign_keys = ON');

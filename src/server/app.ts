@@ -20,6 +20,7 @@ import { settingsRoutes } from '../settings/settings.routes.js';
 import { importRoutes } from '../imports/imports.routes.js';
 import { redirectScreensToSignIn, webRoutes } from '../web/web.routes.js';
 import { handoutRoutes } from '../handouts/handouts.routes.js';
+import { DEFAULT_BODY_LIMIT_BYTES } from './body-limits.js';
 import { registerErrorHandler } from './error-handler.js';
 import { registerTurns } from './turns.js';
 
@@ -51,7 +52,8 @@ export type App = FastifyInstance;
 export async function buildApp(deps: AppDeps): Promise<App> {
   const options = {
     logger: deps.logger ?? false,
-    bodyLimit: 60 * 1024 * 1024,
+    // Routes that take more (diary upload) raise it themselves; file uploads stream to disk.
+    bodyLimit: DEFAULT_BODY_LIMIT_BYTES,
     ...(deps.trustProxy ? { trustProxy: ['127.0.0.1', '::1'] } : {}),
   };
   const app = (

@@ -1,10 +1,14 @@
 import type { Clock } from '../clock.js';
 import type { Config } from '../config.js';
-import { migrateToLatest, openDb } from '../db/database.js';
+import { migrateToLatest, openDb, type Db } from '../db/database.js';
+import { ensureBackupKey } from '../backup/signature.js';
+import { acquireDbLock } from './db-lock.js';
+import { exposedFileWarnings, usePrivateUmask } from './private-files.js';
 import {
   afterListen,
   exposureWarning,
   loadTls,
+  proxyNotice,
   trustProxyFromEnv,
   type TlsFiles,
 } from '../auth/transport.js';
@@ -28,19 +32,32 @@ export async function serve(config: Config, clock: Clock, io: ServeIo, transport
   const https = loadTls(transport);
   const warning = exposureWarning(config.host, !!https);
   if (warning) io.stderr.write(`${warning}\n`);
-  const db = openDb(config.dbFile);
+  usePrivateUmask();
+  // Held while serving: a restore under a running server is refused, not served from stale state.
+  const release = acquireDbLock(config.dbFile, 'server', clock.now());
+  let db: Db;
+  try {
+    for (const w of exposedFileWarnings(config.dbFile)) io.stderr.write(`${w}\n`);
+    db = openDb(config.dbFile);
+    if (config.dbFile !== ':memory:') ensureBackupKey(config.dbFile);
+  } catch (err) {
+    release();
+    throw err;
+  }
+  process.once('exit', release);
   await migrateToLatest(db);
   for (const step of firstStartSteps) await step({ db, config, clock, io });
+  const trustProxy = trustProxyFromEnv(process.env);
   const app = await buildApp({
     db,
     clock,
     config,
     logger: safeLogger(config.logLevel),
-    trustProxy: trustProxyFromEnv(process.env),
+    trustProxy,
     ...(https ? { https } : {}),
   });
   const address = await app.listen({ host: config.host, port: config.port });
-  io.stdout.write(`phosledger listening on ${address}\n`);
+  io.stdout.write(`phosledger listening on ${address}\n${proxyNotice(trustProxy)}\n`);
   await afterListen(app, address, io.stdout);
   // Diary audits' name indexes and scoring features, built while the first requests come in.
   const stopPreparing = new AbortController();
@@ -54,6 +71,8 @@ export async function serve(config: Config, clock: Clock, io: ServeIo, transport
     await preparing;
     await app.close();
     await db.close();
+    process.off('exit', release);
+    release();
   };
   return { app, db, address, close };
 }

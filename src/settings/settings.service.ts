@@ -2,6 +2,7 @@
  * Settings over the `setting` table. Each key is declared once in `settings.ts` with its zod
  * schema and cited default; a key never stored reads as its default.
  */
+import type { Role } from '../auth/auth.js';
 import type { Clock } from '../clock.js';
 import { systemClock } from '../clock.js';
 import type { Db } from '../db/database.js';
@@ -23,6 +24,9 @@ export class UnknownSettingError extends AppError {
 }
 
 export type SettingIssue = { path: string; message: string };
+
+/** Passed to `change` to go back to the default. */
+export const RESET: unique symbol = Symbol('reset to default');
 
 export class SettingsService {
   private readonly repo: SettingsRepository;
@@ -48,7 +52,13 @@ export class SettingsService {
   async view(key: string): Promise<SettingView> {
     const def = this.def(key);
     const row = await this.repo.get(key);
-    const base = { key, default: def.default, source: def.source, description: def.description };
+    const base = {
+      key,
+      default: def.default,
+      source: def.source,
+      description: def.description,
+      editableBy: def.editableBy,
+    };
     if (row) {
       let parsed: unknown;
       try {
@@ -92,6 +102,28 @@ export class SettingsService {
     }
     await this.repo.put(key, JSON.stringify(checked.value), this.clock.now().toISOString());
     return this.view(key);
+  }
+
+  /**
+   * A change made by a signed-in user: refused (403) unless the setting's `editableBy` role is
+   * theirs, and returned with the value in force before, for the audit log.
+   */
+  async change(
+    role: Role,
+    key: string,
+    value: unknown | typeof RESET,
+  ): Promise<{ before: SettingView; after: SettingView }> {
+    const def = this.def(key);
+    if (role !== 'admin' && def.editableBy !== role) {
+      throw new AppError(
+        'PHL_SETTINGS_FORBIDDEN',
+        403,
+        `setting "${key}" is changed by an ${def.editableBy} only`,
+      );
+    }
+    const before = await this.view(key);
+    const after = value === RESET ? await this.reset(key) : await this.set(key, value);
+    return { before, after };
   }
 
   /** Removes the stored value so the default applies again. */

@@ -4,6 +4,7 @@
  * follow from it.
  */
 import type { z } from 'zod';
+import type { Role } from '../auth/auth.js';
 import {
   ABSORPTION_SOURCES,
   DEFAULT_ABSORPTION_FRACTIONS,
@@ -23,6 +24,11 @@ export interface SettingDefinition<T> {
   /** Where the default comes from (guideline, paper) or "common practice, no source". */
   source: string;
   description: string;
+  /**
+   * Who may change it: figures that change what the tool estimates for every patient, and the
+   * clinic details printed on every handout, are the admin's; reading is open to every user.
+   */
+  editableBy: Role;
 }
 
 /** Declares one setting; keeps the value type tied to its schema. */
@@ -30,30 +36,62 @@ export function defineSetting<T>(def: SettingDefinition<T>): SettingDefinition<T
   return def;
 }
 
+/**
+ * Absorption fractions a clinic may set: the schema's 0-1 and low <= typical <= high, and a
+ * typical fraction above 0 for every source. Every source of dietary phosphorus is partly
+ * absorbed (see ABSORPTION_SOURCES); a 0 would show no absorbable phosphorus at all and
+ * under-state every load.
+ */
+const plausibleAbsorption = absorptionFractionsSchema.superRefine((value, ctx) => {
+  for (const [source, range] of Object.entries(value)) {
+    if (range.typical <= 0) {
+      ctx.addIssue({
+        code: 'custom',
+        path: [source, 'typical'],
+        message: 'must be above 0: every source of phosphorus is partly absorbed',
+      });
+    }
+  }
+});
+
+/** Thresholds whose binder cut-offs agree: the high-load mark cannot be under the no-binder mark. */
+const consistentThresholds = thresholdsSchema.superRefine((value, ctx) => {
+  if (value.highLoadOccasionMg < value.binderMinAbsorbableMgPerOccasion) {
+    ctx.addIssue({
+      code: 'custom',
+      path: ['highLoadOccasionMg'],
+      message: 'must be at least binderMinAbsorbableMgPerOccasion',
+    });
+  }
+});
+
 export const SETTINGS = {
   absorption: defineSetting({
-    schema: absorptionFractionsSchema,
+    schema: plausibleAbsorption,
     default: DEFAULT_ABSORPTION_FRACTIONS,
     source: Object.entries(ABSORPTION_SOURCES)
       .map(([k, v]) => `${k}: ${v}`)
       .join(' | '),
     description:
-      'Fractions of phosphorus absorbed by source (0-1, low <= typical <= high); a clinic may set its own.',
+      'Fractions of phosphorus absorbed by source (0-1, low <= typical <= high, typical above 0); a clinic may set its own.',
+    editableBy: 'admin',
   }),
   clinic: defineSetting({
     schema: clinicSchema,
     default: DEFAULT_CLINIC,
     source: "no source: the clinic's own details (empty until filled in)",
     description: 'Clinic name, contact and dietitian shown on handouts and reports.',
+    editableBy: 'admin',
   }),
   thresholds: defineSetting({
-    schema: thresholdsSchema,
+    schema: consistentThresholds,
     default: DEFAULT_THRESHOLDS,
     source: Object.entries(THRESHOLD_SOURCES)
       .map(([k, v]) => `${k}: ${v}`)
       .join(' | '),
     description:
       'Cut-offs for binder pairing (minimum and high-load absorbable P per occasion), the high-ratio flag, swaps and contributors.',
+    editableBy: 'admin',
   }),
 } as const;
 
@@ -74,4 +112,5 @@ export interface SettingView<T = unknown> {
   default: T;
   source: string;
   description: string;
+  editableBy: Role;
 }

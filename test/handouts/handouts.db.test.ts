@@ -83,11 +83,14 @@ describe('handout routes and CLI', () => {
     });
     expect(plan.statusCode).toBe(201);
     planId = plan.json().id;
-    await ctx.inject({
+    // clinic details are changed by an admin
+    const admin = await ctx.signIn('admin');
+    const clinic = await admin.inject({
       method: 'PUT',
       url: '/api/settings/clinic',
       payload: { name: 'Demo Renal Unit', contact: '555-0100', dietitianName: 'R. Demo' },
     });
+    expect(clinic.statusCode).toBe(200);
   });
   afterEach(async () => ctx.close());
 

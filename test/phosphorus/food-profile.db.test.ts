@@ -56,7 +56,9 @@ describe('phosphorus profile in the food JSON', () => {
     `search hits carry the profile, with the clinic's fractions ${hasSr28 ? '' : SR28_MISSING}`,
     async () => {
       insertFoods(ctx.db, sr28Foods('14400'));
-      await ctx.inject({
+      // absorption fractions are changed by an admin
+      const admin = await ctx.signIn('admin');
+      const put = await admin.inject({
         method: 'PUT',
         url: '/api/settings/absorption',
         payload: {
@@ -64,6 +66,7 @@ describe('phosphorus profile in the food JSON', () => {
           additive: { low: 0.5, typical: 0.5, high: 0.5 },
         },
       });
+      expect(put.statusCode).toBe(200);
       const res = await ctx.inject({ method: 'GET', url: '/api/foods?q=cola' });
       const hit = res.json()[0];
       // SR28 14400: 10 mg P, 0.07 g protein: additive 10 - 0.07 x 24.3 = 8.3 mg; ratio undefined

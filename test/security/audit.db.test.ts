@@ -53,7 +53,7 @@ describe('audit log (45 CFR 164.312(b) audit controls): append-only table', () =
       details: null,
     });
     expect(line).toBe(
-      `1,2026-03-05T09:30:00.000Z,1,dana,"'=HYPERLINK(""x"")",plan,3,,,ok,200,\r\n`,
+      `"1","2026-03-05T09:30:00.000Z","1","dana","'=HYPERLINK(""x"")","plan","3","","","ok","200",""\r\n`,
     );
   });
 });
@@ -221,7 +221,7 @@ describe('admin view and export of the audit log', () => {
     );
     const lines = csv.body.trim().split('\r\n');
     expect(lines[0]).toBe(
-      'id,at,userId,username,action,entity,entityId,patientId,patientRef,outcome,statusCode,details',
+      '"id","at","userId","username","action","entity","entityId","patientId","patientRef","outcome","statusCode","details"',
     );
     expect(lines).toHaveLength(6); // header + 5 events
     const jsonl = await ctx.inject('/api/admin/audit/export?format=jsonl&patientId=p1');

@@ -5,6 +5,7 @@ import { PassThrough, Readable } from 'node:stream';
 import Database from 'better-sqlite3';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { backupDatabase, checkDatabaseFile, restoreDatabase } from '../../src/backup/backup.js';
+import { ensureBackupKey, signBackup } from '../../src/backup/signature.js';
 import { runCli } from '../../src/cli/main.js';
 import { fixedClock } from '../../src/clock.js';
 import { migrateToLatest, openDb } from '../../src/db/database.js';
@@ -88,7 +89,7 @@ describe('db backup / db restore (SQLite online backup API, integrity checked fi
     const db = openDb(file);
     await migrateToLatest(db);
     addSource(db, 'r1');
-    await backupDatabase(db.sqlite, join(dir, 'b1.sqlite'));
+    await backupDatabase(db.sqlite, join(dir, 'b1.sqlite'), { key: ensureBackupKey(file) });
     addSource(db, 'r2'); // after the backup
     await db.close();
     expect(sourceCount(file)).toBe(2);
@@ -116,6 +117,11 @@ describe('db backup / db restore (SQLite online backup API, integrity checked fi
     for (let i = 4096 * 3; i < 4096 * 3 + 2000; i++) bytes[i] = 0x5a;
     writeFileSync(join(dir, 'corrupt.sqlite'), bytes);
 
+    // signed with the installation's own key, so the checks after the signature are what refuse them
+    const key = ensureBackupKey(file);
+    for (const bad of ['junk.sqlite', 'foreign.sqlite', 'corrupt.sqlite']) {
+      await signBackup(join(dir, bad), key);
+    }
     for (const bad of ['junk.sqlite', 'foreign.sqlite', 'corrupt.sqlite', 'missing.sqlite']) {
       const check = checkDatabaseFile(join(dir, bad));
       expect(check.ok, bad).toBe(false);

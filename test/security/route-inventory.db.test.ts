@@ -1,6 +1,10 @@
 // Sources: 45 CFR 164.312(a)(1) access control; OWASP ASVS 4.0 V4.1.1 (from memory).
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { RouteInfo } from '../../src/auth/auth.plugin.js';
+import {
+  DEFAULT_BODY_LIMIT_BYTES,
+  PUBLIC_AUTH_BODY_LIMIT_BYTES,
+} from '../../src/server/body-limits.js';
 import { createTestContext, type TestContext } from '../helpers/context.js';
 
 /**
@@ -110,6 +114,24 @@ describe('route inventory: no non-public route answers without a session', () =>
       .map((r) => `${r.method} ${r.url}`);
     expect(missing).toEqual([]);
     expect(routes.filter((r) => r.audit).length).toBeGreaterThan(15);
+  });
+
+  it('keeps request bodies small: 8 KiB on public routes, 1 MiB unless a route needs more', () => {
+    expect(DEFAULT_BODY_LIMIT_BYTES).toBe(1024 * 1024);
+    expect(ctx.app.initialConfig.bodyLimit).toBe(DEFAULT_BODY_LIMIT_BYTES);
+    // Anyone can post to these: a small limit, answered 413 before the body is read.
+    const loosePublic = routes
+      .filter((r) => r.public && METHODS_WITH_BODY.has(r.method))
+      .filter((r) => r.bodyLimit === null || r.bodyLimit > PUBLIC_AUTH_BODY_LIMIT_BYTES)
+      .map((r) => `${r.method} ${r.url} (${r.bodyLimit ?? 'default'})`);
+    expect(loosePublic).toEqual([]);
+    // Routes allowed above the default, and why (file uploads stream to disk instead).
+    const RAISED = new Map([['POST /api/diary-audits', 'a diary sent as JSON text, up to 5 MB']]);
+    const raised = routes
+      .filter((r) => r.bodyLimit !== null && r.bodyLimit > DEFAULT_BODY_LIMIT_BYTES)
+      .map((r) => `${r.method} ${r.url}`)
+      .filter((r) => !RAISED.has(r));
+    expect(raised).toEqual([]);
   });
 
   it('answers 403 on every admin route for a dietitian', async () => {

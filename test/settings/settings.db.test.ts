@@ -60,9 +60,10 @@ describe('SettingsService over the setting table', () => {
   });
 });
 
-describe('GET/PUT/DELETE /api/settings/:key', () => {
+describe('GET/PUT/DELETE /api/settings/:key (changed by an admin)', () => {
   it('round-trips a value', async () => {
-    const put = await ctx.inject({
+    const { inject } = await ctx.signIn('admin');
+    const put = await inject({
       method: 'PUT',
       url: '/api/settings/absorption',
       payload: clinicFractions,
@@ -74,12 +75,13 @@ describe('GET/PUT/DELETE /api/settings/:key', () => {
       value: clinicFractions,
       isDefault: false,
     });
-    const del = await ctx.inject({ method: 'DELETE', url: '/api/settings/absorption' });
+    const del = await inject({ method: 'DELETE', url: '/api/settings/absorption' });
     expect(del.json()).toMatchObject({ isDefault: true, value: DEFAULT_ABSORPTION_FRACTIONS });
   });
 
   it('answers 400 with the issues for an invalid value, and 404 for an unknown key', async () => {
-    const bad = await ctx.inject({
+    const { inject } = await ctx.signIn('admin');
+    const bad = await inject({
       method: 'PUT',
       url: '/api/settings/absorption',
       payload: { ...clinicFractions, animalOrganic: { low: 0.6, typical: 0.5, high: 0.7 } },

@@ -20,7 +20,9 @@ byId<HTMLAnchorElement>('back-to-plan').href =
 
 /**
  * The print view is fetched and shown in a same-origin frame through `srcdoc` (the server
- * forbids framing its pages directly), so its relative links and styles resolve against us.
+ * forbids framing its pages directly). A srcdoc document takes this page's URL as its base, so
+ * the view's root-relative styles resolve without a `<base>` (which the inherited CSP,
+ * `base-uri 'none'`, refuses).
  */
 async function show(): Promise<void> {
   const lang = langSel.value;
@@ -35,7 +37,7 @@ async function show(): Promise<void> {
     const res = await fetch(url, { credentials: 'same-origin', headers: { accept: 'text/html' } });
     const text = await res.text();
     if (!res.ok) throw new Error(`${res.status}: ${text.slice(0, 200)}`);
-    frame.srcdoc = text.replace(/<head([^>]*)>/i, `<head$1><base href="${location.origin}/">`);
+    frame.srcdoc = text;
     frame.dataset.lang = lang;
   } catch (err) {
     frame.srcdoc = `<p>The sheet could not be prepared: ${escapeHtml(errorText(err))}</p>`;

@@ -1,4 +1,4 @@
-import { api } from '../api.js';
+import { api, currentSession } from '../api.js';
 import { initChrome } from '../chrome.js';
 import { errorText, fill, h, say } from '../dom.js';
 import { endpoints } from '../endpoints.js';
@@ -17,6 +17,18 @@ interface SettingJson {
   description?: string;
   isDefault: boolean;
   updatedAt: string | null;
+  /** The role that may change it (an admin may change every setting). */
+  editableBy?: string;
+}
+
+/** Shows a setting the user may not change read-only, saying who changes it. */
+function makeReadOnly(form: HTMLFormElement, s: SettingJson): void {
+  for (const el of form.querySelectorAll<HTMLInputElement | HTMLButtonElement>(
+    'input, textarea, button',
+  )) {
+    el.disabled = true;
+  }
+  form.append(h('p', { class: 'source' }, `Only an ${s.editableBy ?? 'admin'} changes these.`));
 }
 
 const LABELS: Record<string, string> = {
@@ -155,10 +167,21 @@ async function setUp(form: HTMLFormElement): Promise<void> {
   const key = form.dataset.key ?? '';
   const box = form.querySelector('.fields') as HTMLElement;
   const statusId = `${key}-status`;
+  let setting: SettingJson;
   try {
-    show(box, await api<SettingJson>('GET', endpoints.setting(key)));
+    setting = await api<SettingJson>('GET', endpoints.setting(key));
+    show(box, setting);
   } catch (err) {
     fill(box, h('p', { class: 'status error' }, `Setting unavailable: ${errorText(err)}`));
+    return;
+  }
+  const { user } = await currentSession();
+  if (
+    user?.role !== 'admin' &&
+    setting.editableBy !== undefined &&
+    setting.editableBy !== user?.role
+  ) {
+    makeReadOnly(form, setting);
     return;
   }
   const reset = h('button', { type: 'button', class: 'btn btn-quiet' }, 'Back to defaults');
