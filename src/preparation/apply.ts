@@ -61,7 +61,8 @@ export function applicableMethods(
   for (const m of Object.values(PREPARATION_METHODS)) {
     if (m.id === 'as-listed') continue;
     const a = applicability(food, m.id);
-    if (a.ok) out.push({ method: m.id, prepClass: a.prepClass, factors: a.factors, yield: a.yield });
+    if (a.ok)
+      out.push({ method: m.id, prepClass: a.prepClass, factors: a.factors, yield: a.yield });
   }
   return out;
 }

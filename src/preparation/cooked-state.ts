@@ -56,8 +56,7 @@ export function cookedStateOf(food: Pick<Food, 'name' | 'source' | 'group'>): Co
   for (const e of EXCEPTIONS)
     if (e.re.test(text)) return { state: e.state, basis: `the table says "${text}": ${e.reason}` };
   const cooked = COOKED_RE.exec(text);
-  if (cooked)
-    return { state: 'cooked', basis: `the table's description says "${cooked[0]}"` };
+  if (cooked) return { state: 'cooked', basis: `the table's description says "${cooked[0]}"` };
   const raw = RAW_RE.exec(text) ?? DRY_RE.exec(text);
   if (raw) return { state: 'raw', basis: `the table's description says "${raw[0]}"` };
   if (RAW_TABLES.has(food.source))

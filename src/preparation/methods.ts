@@ -262,7 +262,14 @@ export const PREPARATION_METHODS: Record<PreparationMethodId, PreparationMethod>
           ['ando-2015'],
           'Ando 2015: pressure cooker effective; figures from memory',
         ),
-        protein: f(0.8, 0.9, 1.0, false, ['ando-2015'], 'Ando 2015: protein kept; figures from memory'),
+        protein: f(
+          0.8,
+          0.9,
+          1.0,
+          false,
+          ['ando-2015'],
+          'Ando 2015: protein kept; figures from memory',
+        ),
       }),
       poultry: like('poultry', { phosphorus: memory(0.35, 0.55, 0.75) }),
       pulse: like('pulse', { phosphorus: memory(0.65, 0.8, 0.92) }),
@@ -322,7 +329,14 @@ export const PREPARATION_METHODS: Record<PreparationMethodId, PreparationMethod>
  */
 export const PLATE_YIELD: Record<PrepClass, Factor> = {
   meat: memory(0.65, 0.75, 0.85),
-  poultry: f(0.7, 0.77, 0.85, true, ['usda-sr28-pairs', 'cupisti-2006'], 'derived from USDA SR28 NDB 05062 and 05065 (water) with Cupisti 2006 dry-matter retention 93%'),
+  poultry: f(
+    0.7,
+    0.77,
+    0.85,
+    true,
+    ['usda-sr28-pairs', 'cupisti-2006'],
+    'derived from USDA SR28 NDB 05062 and 05065 (water) with Cupisti 2006 dry-matter retention 93%',
+  ),
   fish: memory(0.75, 0.85, 0.95),
   vegetable: memory(0.85, 0.95, 1.05),
   tuber: memory(0.9, 1.0, 1.05),
