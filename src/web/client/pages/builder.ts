@@ -39,6 +39,9 @@ interface FoodInfo {
   id: number;
   name: string;
   portions: Measure[];
+  /** Raw entries list the preparation methods that apply; cooked or unknown ones none. */
+  cookedState?: 'raw' | 'cooked' | 'unknown';
+  preparations?: { method: string; label: string }[];
 }
 
 const planId = pageParams().id ?? '';
@@ -296,6 +299,84 @@ function wordsInput(
   return h('div', {}, input);
 }
 
+/**
+ * How the item is cooked: "as listed" or a method of the preparation table that applies to the
+ * food, and (with a method) which weight the quantity is. Native selects, so the keyboard works
+ * as everywhere (Tab to it, arrows or letters to choose).
+ */
+function preparationCell(
+  day: number,
+  occ: number,
+  k: number,
+  item: DraftItem,
+  name: string,
+  shown: SummaryItem | undefined,
+): HTMLElement {
+  const food = foods.get(item.foodId);
+  const offered = food?.preparations ?? [];
+  const chosen = item.preparation ?? 'as-listed';
+  const stateNote =
+    food?.cookedState === 'cooked'
+      ? 'already cooked in the table: no preparation factor'
+      : food?.cookedState === 'unknown'
+        ? 'the table does not say raw: no preparation factor'
+        : null;
+  const sel = h(
+    'select',
+    {
+      class: 'prep',
+      'aria-label': `Preparation of ${name}`,
+      'data-focus-key': `prep-${day}-${occ}-${k}`,
+      title: stateNote ?? 'how the food is cooked',
+    },
+    h('option', { value: 'as-listed', selected: chosen === 'as-listed' }, 'as listed'),
+    offered.map((m) => h('option', { value: m.method, selected: m.method === chosen }, m.label)),
+  ) as HTMLSelectElement;
+  sel.addEventListener('change', () => {
+    const method = sel.value === 'as-listed' ? null : sel.value;
+    void commit(
+      updateItem(draft, day, occ, k, {
+        preparation: method,
+        // A household measure weighs the food as listed; typed grams are asked for below.
+        weightBasis: method ? (item.measure ? 'table' : (item.weightBasis ?? 'plate')) : 'table',
+      }),
+    );
+  });
+  const parts: (HTMLElement | string)[] = [sel];
+  if (chosen !== 'as-listed') {
+    const basis = h(
+      'select',
+      {
+        class: 'prep-basis',
+        'aria-label': `Weight of ${name} is`,
+        'data-focus-key': `basis-${day}-${occ}-${k}`,
+      },
+      h('option', { value: 'table', selected: item.weightBasis === 'table' }, 'raw weight'),
+      h('option', { value: 'plate', selected: item.weightBasis !== 'table' }, 'plate weight'),
+    ) as HTMLSelectElement;
+    basis.addEventListener('change', () => {
+      void commit(
+        updateItem(draft, day, occ, k, {
+          weightBasis: basis.value === 'plate' ? 'plate' : 'table',
+        }),
+      );
+    });
+    parts.push(' ', basis);
+    const p = shown?.preparation;
+    if (p)
+      parts.push(
+        h(
+          'span',
+          { class: 'prep-note', title: p.sources.join('\n') },
+          ` ${p.tableGrams} g raw = ${p.plateGrams} g cooked; P x${p.factors?.phosphorus.typical ?? 1}, K x${p.factors?.potassium.typical ?? 1}`,
+        ),
+      );
+  } else if (stateNote && offered.length === 0) {
+    parts.push(h('span', { class: 'prep-note' }, ` ${stateNote}`));
+  }
+  return h('div', { class: 'prep-cell' }, parts);
+}
+
 function quantityCell(day: number, occ: number, k: number, item: DraftItem): HTMLElement {
   const food = foods.get(item.foodId);
   // Until the food's measures arrive, the item's own measure stands in for them.
@@ -503,6 +584,7 @@ function renderMeals(): void {
                           ])
                         : null,
                       wordsInput(activeDay, j, k, item, name),
+                      preparationCell(activeDay, j, k, item, name, s),
                     ),
                     quantityCell(activeDay, j, k, item),
                     h('td', { class: 'n num' }, mg(s?.nutrients.phosphorusMg)),
@@ -926,7 +1008,13 @@ async function loadFood(id: number, name?: string): Promise<void> {
   if (foods.has(id)) return;
   try {
     const f = await api<FoodInfo>('GET', endpoints.food(id));
-    foods.set(id, { id, name: f.name, portions: f.portions });
+    foods.set(id, {
+      id,
+      name: f.name,
+      portions: f.portions,
+      cookedState: f.cookedState ?? 'unknown',
+      preparations: f.preparations ?? [],
+    });
   } catch {
     foods.set(id, { id, name: name ?? `food ${id}`, portions: [] });
   }
