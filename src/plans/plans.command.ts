@@ -96,6 +96,12 @@ export function summaryText(s: PlanSummary): string {
         out.push(
           `      ${it.label} - ${qty}: P ${it.nutrients.phosphorusMg ?? '-'} mg${flags.length ? ` [${flags.join(', ')}]` : ''}`,
         );
+        const prep = it.preparation;
+        if (prep && prep.factors)
+          out.push(
+            `        ${prep.label} (${prep.weightBasis === 'plate' ? 'plate' : 'raw'} weight; ${prep.tableGrams} g raw = ${prep.plateGrams} g cooked): ` +
+              `P x${prep.factors.phosphorus.typical}, K x${prep.factors.potassium.typical}, protein x${prep.factors.protein.typical}`,
+          );
       }
     }
     out.push(`  ${line('day total', d.nutrients)}`);
