@@ -213,7 +213,10 @@ export function resolvePlan(
  * reading that gives the larger amounts). A method the food cannot take is refused.
  */
 function resolvePreparation(
-  it: { preparation?: PreparationMethodId | null | undefined; weightBasis?: WeightBasis | undefined },
+  it: {
+    preparation?: PreparationMethodId | null | undefined;
+    weightBasis?: WeightBasis | undefined;
+  },
   food: Food,
   byMeasure: boolean,
 ):

@@ -76,7 +76,9 @@ const itemPreparationSchema = z
     weightBasis: z
       .enum(['table', 'plate'])
       .nullable()
-      .describe("which weight the item's grams are: the food as its table lists it, or on the plate"),
+      .describe(
+        "which weight the item's grams are: the food as its table lists it, or on the plate",
+      ),
     tableGrams: z.number(),
     plateGrams: z.number(),
     factors: factorsSchema

@@ -383,7 +383,15 @@ function preparedItem(
   // resolvePlan refused such items; a stored one means the rule changed since: shown as listed.
   if (!a.ok) return null;
   const basis = it.weightBasis ?? 'table';
-  const x = prepareAmounts(facts.food, facts.profile, absorption, it.grams, basis, it.preparation, a);
+  const x = prepareAmounts(
+    facts.food,
+    facts.profile,
+    absorption,
+    it.grams,
+    basis,
+    it.preparation,
+    a,
+  );
   const itemAcc = newAcc();
   const typ = (r: MgRange | null, key: NutrientKey) => {
     if (r === null) itemAcc.missing.add(key);
@@ -420,9 +428,9 @@ function preparedItem(
     weightBasis: x.weightBasis,
     tableGrams: r1(x.tableGrams.typical),
     plateGrams: r1(x.plateGrams.typical),
-    factors: Object.fromEntries(
-      PREP_NUTRIENTS.map((n) => [n, fr(x.factors[n])]),
-    ) as NonNullable<ItemPreparation['factors']>,
+    factors: Object.fromEntries(PREP_NUTRIENTS.map((n) => [n, fr(x.factors[n])])) as NonNullable<
+      ItemPreparation['factors']
+    >,
     yield: fr(x.yield),
     ranges: rangesOut(itemAcc, 1),
     sources: sourcesText(x.factors, x.yield),

@@ -86,6 +86,7 @@ async function commit(next: PlanDraft): Promise<void> {
     const saved = await api<PlanJson>('PUT', endpoints.plan(planId), toPlanInput(draft));
     if (mine !== summarySeq) return;
     plan = saved;
+    draft = withResolvedBasis(draft, saved);
     dirty = false;
     setSaveState(saved.version ? `Saved as version ${saved.version}` : 'Saved');
     await refreshSummary(mine);
@@ -93,6 +94,23 @@ async function commit(next: PlanDraft): Promise<void> {
   } catch (err) {
     if (mine === summarySeq) setSaveState(`Not saved: ${errorText(err)}`, true);
   }
+}
+
+/** Takes the weight basis the server chose (the larger reading) for items that did not say. */
+function withResolvedBasis(d: PlanDraft, saved: PlanDraft): PlanDraft {
+  return {
+    ...d,
+    days: d.days.map((day, i) => ({
+      ...day,
+      occasions: day.occasions.map((o, j) => ({
+        ...o,
+        items: o.items.map((it, k) => {
+          const basis = saved.days[i]?.occasions[j]?.items[k]?.weightBasis;
+          return it.preparation && !it.weightBasis && basis ? { ...it, weightBasis: basis } : it;
+        }),
+      })),
+    })),
+  };
 }
 
 async function refreshSummary(mine = ++summarySeq): Promise<void> {
@@ -334,13 +352,18 @@ function preparationCell(
   ) as HTMLSelectElement;
   sel.addEventListener('change', () => {
     const method = sel.value === 'as-listed' ? null : sel.value;
-    void commit(
-      updateItem(draft, day, occ, k, {
-        preparation: method,
-        // A household measure weighs the food as listed; typed grams are asked for below.
-        weightBasis: method ? (item.measure ? 'table' : (item.weightBasis ?? 'plate')) : 'table',
-      }),
-    );
+    // A household measure weighs the food as listed; typed grams keep the basis chosen, else
+    // the server reads them the way that gives the larger amounts (shown once saved).
+    const basis = item.measure ? 'table' : item.weightBasis;
+    const next: DraftItem = {
+      foodId: item.foodId,
+      grams: item.grams,
+      measure: item.measure,
+      ...(item.label !== undefined ? { label: item.label } : {}),
+      preparation: method,
+      ...(method && basis ? { weightBasis: basis } : {}),
+    };
+    void commit(replaceItem(draft, day, occ, k, next));
   });
   const parts: (HTMLElement | string)[] = [sel];
   if (chosen !== 'as-listed') {
@@ -891,6 +914,7 @@ async function showSwaps(c: Contributor): Promise<void> {
               ),
             ),
           ),
+      preparedSwapLine(c, res),
       h('p', { class: 'source' }, res.rule),
       h(
         'p',
@@ -901,6 +925,76 @@ async function showSwaps(c: Contributor): Promise<void> {
   } catch (err) {
     fill(el, h('p', { class: 'status error' }, `Swaps unavailable: ${errorText(err)}`));
   }
+}
+
+/** "Same food, boiled and drained": the swap is the method, applied to the food's items. */
+function preparedSwapLine(c: Contributor, res: SwapResult): HTMLElement | null {
+  const p = res.prepared;
+  if (!p) return null;
+  return h(
+    'p',
+    { class: 'swap-prepared' },
+    `Same food, ${p.label.toLowerCase()}`,
+    h(
+      'span',
+      { class: 'muted small' },
+      ` — ${Math.round(p.shareOfOriginal * 100)} % of its absorbable phosphorus ${res.basis === 'per-g-protein' ? 'per g protein' : 'per portion'}`,
+    ),
+    ' ',
+    h(
+      'button',
+      {
+        type: 'button',
+        class: 'btn btn-small',
+        title: p.sources.join('\n'),
+        'aria-label': `Cook ${c.name}: ${p.label}`,
+        onclick: () => void usePreparation(c.foodId, p.method),
+      },
+      'Use',
+    ),
+  );
+}
+
+/** The plan with one item replaced whole (so a field can be dropped, not only changed). */
+function replaceItem(
+  d: PlanDraft,
+  day: number,
+  occ: number,
+  k: number,
+  item: DraftItem,
+): PlanDraft {
+  return {
+    ...d,
+    days: d.days.map((x, i) =>
+      i !== day
+        ? x
+        : {
+            ...x,
+            occasions: x.occasions.map((o, j) =>
+              j !== occ ? o : { ...o, items: o.items.map((it, n) => (n === k ? item : it)) },
+            ),
+          },
+    ),
+  };
+}
+
+/** Sets the method on every item of the food in the shown day that has none yet. */
+async function usePreparation(foodId: number, method: string): Promise<void> {
+  let next = draft;
+  draft.days[activeDay]?.occasions.forEach((o, j) => {
+    o.items.forEach((it, k) => {
+      if (it.foodId === foodId && !it.preparation)
+        // Typed grams: the server reads them the way that gives the larger amounts.
+        next = updateItem(
+          next,
+          activeDay,
+          j,
+          k,
+          it.measure ? { preparation: method, weightBasis: 'table' } : { preparation: method },
+        );
+    });
+  });
+  await commit(next);
 }
 
 /** Replaces every item of the food in the shown day, keeping each item's weight in grams. */
