@@ -101,8 +101,11 @@ function occasionHeight(
 ): number {
   let h = 8 + titleBlockHeight(flow, occ, inner);
   for (const item of occ.items) {
-    const a = flow.wrap(itemText(item), (itemCols[0] as TableColumn).style, inner * 0.62 - 6)
-      .length;
+    const a = flow.wrap(
+      itemText(item),
+      (itemCols[0] as TableColumn).style,
+      inner * 0.62 - 6,
+    ).length;
     const b = flow.wrap(item.portion, (itemCols[1] as TableColumn).style, inner * 0.38 - 6).length;
     h += Math.max(a, b) * flow.lineHeight(TYPE.body) + 6;
   }

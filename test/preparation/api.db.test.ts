@@ -96,7 +96,9 @@ describe('preparation over HTTP', () => {
         payload: plan([{ foodId: cooked.id, grams: 100, preparation: 'boil-drain' }]),
       });
       expect(bad.statusCode).toBe(400);
-      expect(JSON.stringify(bad.json())).toMatch(/items\.0\.preparation: boil-drain: .*already cooked/);
+      expect(JSON.stringify(bad.json())).toMatch(
+        /items\.0\.preparation: boil-drain: .*already cooked/,
+      );
     },
   );
 
