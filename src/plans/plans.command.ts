@@ -179,7 +179,10 @@ export const planShow: Command = {
               ? `${it.measure.count} x ${it.measure.description} = ${it.grams} g`
               : `${it.grams} g`;
             out.push(
-              `    ${it.label ?? names.get(it.foodId) ?? it.foodId}: ${qty}  [food ${it.foodId}]`,
+              `    ${it.label ?? names.get(it.foodId) ?? it.foodId}: ${qty}  [food ${it.foodId}]` +
+                (it.preparation
+                  ? `  ${it.preparation}${it.weightBasis ? ` (${it.weightBasis} weight)` : ''}`
+                  : ''),
             );
           }
         }

@@ -331,8 +331,13 @@ function preparationCell(
   shown: SummaryItem | undefined,
 ): HTMLElement {
   const food = foods.get(item.foodId);
-  const offered = food?.preparations ?? [];
   const chosen = item.preparation ?? 'as-listed';
+  const known = food?.preparations ?? [];
+  // Until the food's methods arrive, the item's own method stands in for them.
+  const offered =
+    chosen !== 'as-listed' && !known.some((m) => m.method === chosen)
+      ? [...known, { method: chosen, label: shown?.preparation?.label ?? chosen }]
+      : known;
   const stateNote =
     food?.cookedState === 'cooked'
       ? 'already cooked in the table: no preparation factor'
