@@ -18,7 +18,7 @@ export interface HandoutItem {
   /** The summary's flags; `additive` marks foods likely to contain phosphate additives. */
   flags?: { additive: boolean };
   /** The preparation method the dietitian chose ('as-listed' or absent: nothing to say). */
-  preparation?: { method: string } | null;
+  preparation?: { method: string; plateGrams?: number } | null;
 }
 
 export interface HandoutOccasion {

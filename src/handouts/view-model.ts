@@ -178,6 +178,11 @@ const BINDER_HOW: Record<string, string> = {
   'sucroferric-oxyhydroxide': 'binder.timing.chew',
 };
 
+/** A label used as a heading starts with a capital where the script has them. */
+function firstUpper(text: string): string {
+  return text.charAt(0).toLocaleUpperCase() + text.slice(1);
+}
+
 /** The method an item is cooked by, or null when it is as the table lists it. */
 function preparedMethod(item: HandoutItem): string | null {
   const m = item.preparation?.method;
@@ -208,7 +213,7 @@ function cookingSection(
     items: [...lines.values()],
     steps: methods.map((m) => ({
       method: m,
-      label: t(`prep.method.${m}`),
+      label: firstUpper(t(`prep.method.${m}`)),
       how: t(`prep.how.${m}`),
     })),
     water: t('prep.water'),
@@ -292,6 +297,14 @@ export function buildHandoutViewModel(
     return t('portion.grams', { grams: g });
   };
 
+  // A prepared item is weighed on the plate: the grams the patient sees once it is cooked.
+  const preparedPortion = (item: HandoutItem): string | null => {
+    const plate = item.preparation?.plateGrams;
+    return preparedMethod(item) && plate !== undefined
+      ? t('prep.portionCooked', { grams: grams(plate) })
+      : null;
+  };
+
   const days: DayVm[] = summary.days.map((day, dayIndex) => {
     const occasions: OccasionVm[] = day.occasions.map((occ) => {
       const dose = doses.find((d) => sameDay(d.day, dayIndex, day) && d.occasion === occ.name);
@@ -316,7 +329,7 @@ export function buildHandoutViewModel(
         absorbedLine: t('occasion.absorbed', { typical: mg(a.typical) }),
         items: occ.items.map((item) => ({
           label: item.label,
-          portion: portion(item),
+          portion: preparedPortion(item) ?? portion(item),
           grams: item.grams,
           ...(preparedMethod(item)
             ? { preparation: t(`prep.method.${preparedMethod(item) as string}`) }

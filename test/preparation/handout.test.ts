@@ -36,7 +36,13 @@ const summary: HandoutSummary = {
               label: 'potatoes',
               preparation: { method: 'double-boil-drain' },
             },
-            { foodId: 2, grams: 100, label: 'chicken', preparation: { method: 'boil-drain' } },
+            // 100 g of raw chicken is about 77 g on the plate (poultry yield 0.77)
+            {
+              foodId: 2,
+              grams: 100,
+              label: 'chicken',
+              preparation: { method: 'boil-drain', plateGrams: 77 },
+            },
             { foodId: 3, grams: 30, label: 'bread', preparation: { method: 'as-listed' } },
           ],
         },
@@ -83,6 +89,9 @@ describe('handout: how to cook prepared foods, in every handout language', () =>
     expect(en.cooking?.water).toMatch(/Do not use the cooking water for soup, sauce or gravy/);
     expect(en.cooking?.caution).toMatch(/diabetes/);
     expect(en.cooking?.caution).toMatch(/potassium/);
+    // the patient sees the cooked weight of a prepared item, and headings start with a capital
+    expect(en.days[0]?.occasions[0]?.items[1]?.portion).toBe('77 g when cooked');
+    expect(en.cooking?.steps[1]?.label).toBe('Boiled, water thrown away');
     const html = renderHandoutHtml(vmFor('es'));
     expect(html).toContain('Tire toda el agua');
     expect(html).toContain(
