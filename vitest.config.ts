@@ -11,7 +11,7 @@ const SLOW = [
   'test/security/fuzz.db.test.ts',
   'test/foods/name-index.db.test.ts',
   'test/diary/prepare.db.test.ts',
-  'test/web/**/*.e2e.db.test.ts',
+  'test/**/*.e2e.db.test.ts',
 ];
 
 export default defineConfig({

@@ -7,6 +7,8 @@ import type { Food } from '../foods/food.js';
 import type { Targets } from '../patients/targets.js';
 import { guessOccasionKind, type PlanDay } from '../plans/plan.js';
 import { summarizePlan } from '../plans/summary.js';
+import type { PreparedAmounts } from '../preparation/apply.js';
+import { diaryPreparation } from '../preparation/diary-words.js';
 import type {
   Contributor,
   DayStatus,
@@ -217,7 +219,10 @@ export function buildDiaryReport(input: BuildInput): Omit<DiaryReport, 'days'> &
       profile = profileFood(food, settings.absorption);
       profiles.set(food, profile);
     }
-    const scaled = scaleProfile(profile, grams.grams);
+    // A cooking word ("boiled", "hervido"...) on a raw entry: counted boiled and drained.
+    const cooking = diaryPreparation(e.foodText, food, profile, settings.absorption, grams.grams);
+    if (cooking) findings.push(cooking.finding);
+    const scaled = preparedScale(scaleProfile(profile, grams.grams), cooking?.amounts ?? null);
     const hidden = profile.additiveLikely && !profile.additiveEvidentFromName;
     if (grams.assumed) findings.push(`portion assumed: ${grams.note}`);
     if (profile.additiveLikely) {
@@ -246,6 +251,7 @@ export function buildDiaryReport(input: BuildInput): Omit<DiaryReport, 'days'> &
       grams: grams.grams,
       measure: null,
       label: e.text.slice(0, 120),
+      ...(cooking?.item ?? {}),
     });
     reports.push({
       ...base,
@@ -313,5 +319,19 @@ export function buildDiaryReport(input: BuildInput): Omit<DiaryReport, 'days'> &
     hiddenAdditiveEntries: reports.filter((r) => r.hidden).map((r) => r.line),
     targetsSource: input.targetsSource,
     caution: DIARY_CAUTION,
+  };
+}
+
+/** The entry's scaled profile with the amounts after its preparation, when it has one. */
+function preparedScale(
+  scaled: ReturnType<typeof scaleProfile>,
+  prepared: PreparedAmounts | null,
+): ReturnType<typeof scaleProfile> {
+  if (!prepared) return scaled;
+  return {
+    ...scaled,
+    totalMg: prepared.phosphorusMg?.typical ?? scaled.totalMg,
+    absorbableMg: prepared.absorbablePhosphorusMg ?? scaled.absorbableMg,
+    additiveMg: prepared.additivePhosphorusMg,
   };
 }

@@ -9,6 +9,10 @@ import { FoodRepository } from './foods.repository.js';
 import { FoodService } from './foods.service.js';
 import { PhosphorusService } from '../phosphorus/phosphorus.service.js';
 import { toPhosphorusJson } from '../phosphorus/phosphorus.json.js';
+import {
+  foodPreparationJsonSchema,
+  toFoodPreparationJson,
+} from '../preparation/preparation.json.js';
 
 export const foodRoutes: FastifyPluginAsync<{ db: Db }> = async (app, { db }) => {
   const repo = new FoodRepository(db.kysely);
@@ -44,6 +48,8 @@ export const foodRoutes: FastifyPluginAsync<{ db: Db }> = async (app, { db }) =>
         tags: ['foods'],
         summary: 'One food with every stored nutrient, portions and provenance',
         params: z.object({ id: z.coerce.number().int().positive() }),
+        // Only the preparation fields are spelled out; the rest passes through as it always did.
+        response: { 200: z.looseObject(foodPreparationJsonSchema.shape) },
       },
     },
     async (req) => {
@@ -57,6 +63,7 @@ export const foodRoutes: FastifyPluginAsync<{ db: Db }> = async (app, { db }) =>
       return {
         ...toFoodJson(food),
         phosphorus: toPhosphorusJson(profile),
+        ...toFoodPreparationJson(food),
         nutrients: nutrients.map((n) => ({
           code: n.code,
           name: n.name,

@@ -101,12 +101,40 @@ function occasionHeight(
 ): number {
   let h = 8 + titleBlockHeight(flow, occ, inner);
   for (const item of occ.items) {
-    const a = flow.wrap(item.label, (itemCols[0] as TableColumn).style, inner * 0.62 - 6).length;
+    const a = flow.wrap(
+      itemText(item),
+      (itemCols[0] as TableColumn).style,
+      inner * 0.62 - 6,
+    ).length;
     const b = flow.wrap(item.portion, (itemCols[1] as TableColumn).style, inner * 0.38 - 6).length;
     h += Math.max(a, b) * flow.lineHeight(TYPE.body) + 6;
   }
   if (occ.binder) h += 5 + flow.measure(binderText(occ), style(TYPE.body, 'bold'), inner - 26);
   return h + 6;
+}
+
+/** The item's words with how to cook it, when a method was chosen. */
+function itemText(item: OccasionVm['items'][number]): string {
+  return item.preparation ? `${item.label} \u00b7 ${item.preparation}` : item.label;
+}
+
+/** The "how to cook" page: foods, one instruction per method, the water rule and the caution. */
+function drawCooking(
+  flow: PdfFlow,
+  c: NonNullable<HandoutViewModel['cooking']>,
+  cautionHeading: string,
+): void {
+  flow.newPage();
+  heading(flow, c.heading);
+  flow.paragraph(c.intro, style(TYPE.body), { gapAfter: 6 });
+  for (const line of c.items) flow.paragraph(`\u2022 ${line}`, style(TYPE.body), { gapAfter: 2 });
+  flow.y += 6;
+  for (const step of c.steps) {
+    flow.paragraph(step.label, style(TYPE.body, 'bold'), { gapAfter: 2 });
+    flow.paragraph(step.how, style(TYPE.body), { gapAfter: 6 });
+  }
+  flow.paragraph(c.water, style(TYPE.body, 'bold'), { gapAfter: 8 });
+  drawCautionBox(flow, cautionHeading, [c.caution]);
 }
 
 function occasionTitle(occ: OccasionVm): string {
@@ -177,7 +205,7 @@ function drawOccasion(flow: PdfFlow, occ: OccasionVm): void {
   drawTable(
     flow,
     itemCols,
-    occ.items.map((i) => [i.label, i.portion]),
+    occ.items.map((i) => [itemText(i), i.portion]),
     { x, width: inner, padPt: 3 },
   );
   if (occ.binder) {
@@ -234,6 +262,8 @@ export async function renderHandoutPdf(
     for (const occ of day.occasions) drawOccasion(flow, occ);
     continued = null;
   }
+
+  if (vm.cooking) drawCooking(flow, vm.cooking, vm.cautions.heading);
 
   flow.newPage();
   const w = vm.foodsToWatch;

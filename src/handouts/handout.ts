@@ -17,6 +17,8 @@ export interface HandoutItem {
   measure?: { count: number; description: string } | null;
   /** The summary's flags; `additive` marks foods likely to contain phosphate additives. */
   flags?: { additive: boolean };
+  /** The preparation method the dietitian chose ('as-listed' or absent: nothing to say). */
+  preparation?: { method: string; plateGrams?: number } | null;
 }
 
 export interface HandoutOccasion {

@@ -42,6 +42,20 @@ export interface ItemVm {
   label: string;
   portion: string;
   grams: number;
+  /** How to cook it, in a few words in the patient's language; only when a method was chosen. */
+  preparation?: string;
+}
+
+/** The "how to cook" section: present only when some item has a preparation method. */
+export interface CookingVm {
+  heading: string;
+  intro: string;
+  /** One line per food and method ("Potatoes: boiled, water thrown away"). */
+  items: string[];
+  /** One plain instruction per method used. */
+  steps: { method: string; label: string; how: string }[];
+  water: string;
+  caution: string;
 }
 
 export interface OccasionVm {
@@ -107,6 +121,8 @@ export interface HandoutViewModel {
     inPlan: string | null;
   };
   cautions: { heading: string; lines: string[] };
+  /** Only when some item has a preparation method. */
+  cooking?: CookingVm;
   /** Keys shown in English because the language lacks them (only in 'mark' mode). */
   fallbackKeys: string[];
 }
@@ -161,6 +177,49 @@ const BINDER_HOW: Record<string, string> = {
   'ferric-citrate': 'binder.timing.swallow',
   'sucroferric-oxyhydroxide': 'binder.timing.chew',
 };
+
+/** A label used as a heading starts with a capital where the script has them. */
+function firstUpper(text: string): string {
+  return text.charAt(0).toLocaleUpperCase() + text.slice(1);
+}
+
+/** The method an item is cooked by, or null when it is as the table lists it. */
+function preparedMethod(item: HandoutItem): string | null {
+  const m = item.preparation?.method;
+  return m && m !== 'as-listed' ? m : null;
+}
+
+/** "How to cook": each prepared food once, each method's instruction once, water and caution. */
+function cookingSection(
+  summary: HandoutSummary,
+  t: (key: string, values?: MessageValues) => string,
+): CookingVm | null {
+  const lines = new Map<string, string>();
+  const methods: string[] = [];
+  for (const d of summary.days)
+    for (const o of d.occasions)
+      for (const i of o.items) {
+        const m = preparedMethod(i);
+        if (!m) continue;
+        if (!methods.includes(m)) methods.push(m);
+        const key = `${i.label}\u0000${m}`;
+        if (!lines.has(key))
+          lines.set(key, t('prep.item', { food: i.label, method: t(`prep.method.${m}`) }));
+      }
+  if (methods.length === 0) return null;
+  return {
+    heading: t('prep.heading'),
+    intro: t('prep.intro'),
+    items: [...lines.values()],
+    steps: methods.map((m) => ({
+      method: m,
+      label: firstUpper(t(`prep.method.${m}`)),
+      how: t(`prep.how.${m}`),
+    })),
+    water: t('prep.water'),
+    caution: t('prep.caution'),
+  };
+}
 
 /** Reads the day's phosphorus target (mg/day) from the summary's targets, whatever its shape. */
 export function phosphorusTargetMg(targets: unknown): number | null {
@@ -238,6 +297,14 @@ export function buildHandoutViewModel(
     return t('portion.grams', { grams: g });
   };
 
+  // A prepared item is weighed on the plate: the grams the patient sees once it is cooked.
+  const preparedPortion = (item: HandoutItem): string | null => {
+    const plate = item.preparation?.plateGrams;
+    return preparedMethod(item) && plate !== undefined
+      ? t('prep.portionCooked', { grams: grams(plate) })
+      : null;
+  };
+
   const days: DayVm[] = summary.days.map((day, dayIndex) => {
     const occasions: OccasionVm[] = day.occasions.map((occ) => {
       const dose = doses.find((d) => sameDay(d.day, dayIndex, day) && d.occasion === occ.name);
@@ -262,8 +329,11 @@ export function buildHandoutViewModel(
         absorbedLine: t('occasion.absorbed', { typical: mg(a.typical) }),
         items: occ.items.map((item) => ({
           label: item.label,
-          portion: portion(item),
+          portion: preparedPortion(item) ?? portion(item),
           grams: item.grams,
+          ...(preparedMethod(item)
+            ? { preparation: t(`prep.method.${preparedMethod(item) as string}`) }
+            : {}),
         })),
         binder,
       };
@@ -408,6 +478,8 @@ export function buildHandoutViewModel(
     },
     fallbackKeys: [],
   };
+  const cooking = cookingSection(summary, t);
+  if (cooking) value.cooking = cooking;
   if (!messages.catalogue.patterns.has('footer.page')) fallbackKeys.add('footer.page');
   value.fallbackKeys = [...fallbackKeys].sort();
   return { ok: true, value };

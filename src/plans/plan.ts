@@ -1,5 +1,7 @@
 import { z } from 'zod';
 import type { Food } from '../foods/food.js';
+import { applicability, conservativeBasis, type WeightBasis } from '../preparation/apply.js';
+import { PREPARATION_METHOD_IDS, type PreparationMethodId } from '../preparation/methods.js';
 
 /** Items heavier than this in one line are refused as typing errors (common practice, no source). */
 export const MAX_ITEM_GRAMS = 5000;
@@ -24,6 +26,19 @@ const itemInputSchema = z
       .optional(),
     /** The patient's own words for the item, in their language. */
     label: z.string().trim().min(1).max(120).nullable().optional(),
+    /** How the food is prepared (a method id of the preparation table); none = as the table lists it. */
+    preparation: z
+      .enum(PREPARATION_METHOD_IDS, {
+        error: `preparation must be one of ${PREPARATION_METHOD_IDS.join(', ')}`,
+      })
+      .nullable()
+      .optional(),
+    /**
+     * Which weight the grams (or measure) are: 'table' = the food as its table lists it (raw),
+     * 'plate' = cooked on the plate. Only read with a preparation; when left out, the reading that
+     * gives the larger amounts is used.
+     */
+    weightBasis: z.enum(['table', 'plate']).optional(),
   })
   .strict()
   .superRefine((it, ctx) => {
@@ -77,6 +92,10 @@ export interface PlanItem {
   grams: number;
   measure: { portionId: number; count: number; description: string; gramsPerUnit: number } | null;
   label: string | null;
+  /** Absent on items saved before preparation methods existed (they summarise as before). */
+  preparation?: PreparationMethodId;
+  /** Set with `preparation` (other than 'as-listed'): which weight `grams` is. */
+  weightBasis?: WeightBasis;
 }
 
 export interface PlanOccasion {
@@ -131,6 +150,11 @@ export function resolvePlan(
           issues.push({ path: `${at}.foodId`, message: `unknown food id ${it.foodId}` });
           return [];
         }
+        const prep = resolvePreparation(it, food, it.measure !== undefined);
+        if (!prep.ok) {
+          issues.push({ path: `${at}.preparation`, message: prep.message });
+          return [];
+        }
         if (it.measure) {
           const portion = food.portions.find((p) => p.id === it.measure?.portionId);
           if (!portion) {
@@ -161,11 +185,18 @@ export function resolvePlan(
                 gramsPerUnit,
               },
               label: it.label ?? null,
+              ...prep.value,
             },
           ];
         }
         return [
-          { foodId: food.id, grams: it.grams as number, measure: null, label: it.label ?? null },
+          {
+            foodId: food.id,
+            grams: it.grams as number,
+            measure: null,
+            label: it.label ?? null,
+            ...prep.value,
+          },
         ];
       }),
     })),
@@ -173,6 +204,32 @@ export function resolvePlan(
   return issues.length > 0
     ? { ok: false, issues }
     : { ok: true, value: { name: input.name, days } };
+}
+
+/**
+ * The preparation fields to store for an item: none when it has no method (so items without one
+ * are stored exactly as before), the method alone for 'as-listed', else the method and the
+ * weight basis (given, else 'table' for a household measure of the table's food, else the
+ * reading that gives the larger amounts). A method the food cannot take is refused.
+ */
+function resolvePreparation(
+  it: {
+    preparation?: PreparationMethodId | null | undefined;
+    weightBasis?: WeightBasis | undefined;
+  },
+  food: Food,
+  byMeasure: boolean,
+):
+  | { ok: true; value: Pick<PlanItem, 'preparation' | 'weightBasis'> }
+  | { ok: false; message: string } {
+  const method = it.preparation ?? null;
+  if (method === null) return { ok: true, value: {} };
+  if (method === 'as-listed') return { ok: true, value: { preparation: method } };
+  const a = applicability(food, method);
+  if (!a.ok) return { ok: false, message: `${method}: ${a.reason}` };
+  // A household measure of the table's food weighs the food as the table lists it.
+  const weightBasis = it.weightBasis ?? (byMeasure ? 'table' : conservativeBasis(a.prepClass));
+  return { ok: true, value: { preparation: method, weightBasis } };
 }
 
 /** Every food id a plan input refers to. */

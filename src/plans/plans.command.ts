@@ -96,6 +96,12 @@ export function summaryText(s: PlanSummary): string {
         out.push(
           `      ${it.label} - ${qty}: P ${it.nutrients.phosphorusMg ?? '-'} mg${flags.length ? ` [${flags.join(', ')}]` : ''}`,
         );
+        const prep = it.preparation;
+        if (prep && prep.factors)
+          out.push(
+            `        ${prep.label} (${prep.weightBasis === 'plate' ? 'plate' : 'raw'} weight; ${prep.tableGrams} g raw = ${prep.plateGrams} g cooked): ` +
+              `P x${prep.factors.phosphorus.typical}, K x${prep.factors.potassium.typical}, protein x${prep.factors.protein.typical}`,
+          );
       }
     }
     out.push(`  ${line('day total', d.nutrients)}`);
@@ -173,7 +179,10 @@ export const planShow: Command = {
               ? `${it.measure.count} x ${it.measure.description} = ${it.grams} g`
               : `${it.grams} g`;
             out.push(
-              `    ${it.label ?? names.get(it.foodId) ?? it.foodId}: ${qty}  [food ${it.foodId}]`,
+              `    ${it.label ?? names.get(it.foodId) ?? it.foodId}: ${qty}  [food ${it.foodId}]` +
+                (it.preparation
+                  ? `  ${it.preparation}${it.weightBasis ? ` (${it.weightBasis} weight)` : ''}`
+                  : ''),
             );
           }
         }

@@ -48,6 +48,39 @@ export interface Nutrients {
   calciumMg: number;
   energyKcal: number;
   incomplete: NutrientKey[];
+  /**
+   * Present only when some item in scope has a preparation method: the low-high range of each
+   * amount the method changes (unprepared items count with their one value at both ends).
+   */
+  preparedRanges?: PreparedRanges;
+}
+
+export interface PreparedRanges {
+  phosphorusMg: MgRange;
+  proteinG: MgRange;
+  potassiumMg: MgRange;
+  sodiumMg: MgRange;
+  calciumMg: MgRange;
+}
+
+/** The preparation applied to an item, with what it did and where the figures come from. */
+export interface ItemPreparation {
+  method: string;
+  label: string;
+  /** The food's preparation class; null for 'as-listed'. */
+  prepClass: string | null;
+  /** Which weight the item's grams are; null for 'as-listed'. */
+  weightBasis: 'table' | 'plate' | null;
+  /** Grams of the food as its table lists it (raw) and on the plate (cooked), typical. */
+  tableGrams: number;
+  plateGrams: number;
+  /** Retained fractions applied (null for 'as-listed': none). */
+  factors: Record<'phosphorus' | 'potassium' | 'sodium' | 'calcium' | 'protein', MgRange> | null;
+  /** Plate grams per table gram. */
+  yield: MgRange | null;
+  ranges: PreparedRanges | null;
+  sources: string[];
+  notes: string[];
 }
 
 /** One item's amounts; null = the food table has no value. */
@@ -75,6 +108,8 @@ export interface ItemSummary {
   nutrients: ItemNutrients;
   splitMethod: string;
   flags: { additive: boolean; highRatio: boolean };
+  /** Present only for items saved with a preparation method; nutrients are after it. */
+  preparation?: ItemPreparation;
 }
 
 export interface OccasionSummary {

@@ -15,6 +15,16 @@ const nutrientKey = z.enum([
   'energyKcal',
 ]);
 
+const preparedRangesSchema = z
+  .object({
+    phosphorusMg: mgRange,
+    proteinG: mgRange,
+    potassiumMg: mgRange,
+    sodiumMg: mgRange,
+    calciumMg: mgRange,
+  })
+  .describe('low-high range of the amounts a preparation method changes (typical in the middle)');
+
 export const nutrientsSchema = z
   .object({
     phosphorusMg: z.number(),
@@ -29,6 +39,9 @@ export const nutrientsSchema = z
     incomplete: z
       .array(nutrientKey)
       .describe('nutrients some foods lack: the totals are lower bounds'),
+    preparedRanges: preparedRangesSchema
+      .optional()
+      .describe('only when some item in scope has a preparation method'),
   })
   .describe('mg, g and kcal; ratio in mg phosphorus per g protein');
 
@@ -47,6 +60,37 @@ const itemNutrientsSchema = z.object({
 
 const flags = z.object({ additive: z.boolean(), highRatio: z.boolean() });
 
+const factorsSchema = z.object({
+  phosphorus: mgRange,
+  potassium: mgRange,
+  sodium: mgRange,
+  calcium: mgRange,
+  protein: mgRange,
+});
+
+const itemPreparationSchema = z
+  .object({
+    method: z.string().describe('a method id of the preparation table'),
+    label: z.string(),
+    prepClass: z.string().nullable(),
+    weightBasis: z
+      .enum(['table', 'plate'])
+      .nullable()
+      .describe(
+        "which weight the item's grams are: the food as its table lists it, or on the plate",
+      ),
+    tableGrams: z.number(),
+    plateGrams: z.number(),
+    factors: factorsSchema
+      .nullable()
+      .describe('retained fractions applied (true retention, low/typical/high); null = none'),
+    yield: mgRange.nullable().describe('plate grams per gram as the table lists it'),
+    ranges: preparedRangesSchema.nullable(),
+    sources: z.array(z.string()),
+    notes: z.array(z.string()),
+  })
+  .describe('the preparation method of the item; its nutrients are after it');
+
 const itemSchema = z.object({
   foodId: z.number(),
   foodName: z.string(),
@@ -60,6 +104,7 @@ const itemSchema = z.object({
   nutrients: itemNutrientsSchema,
   splitMethod: z.string(),
   flags,
+  preparation: itemPreparationSchema.optional(),
 });
 
 const targetSchema = z.object({

@@ -9,14 +9,20 @@ import { ROUNDING_RULE, distributeBinder } from '../binders/distribution.js';
 import type { Food } from '../foods/food.js';
 import type { TargetKey, Targets } from '../patients/targets.js';
 import { profileFood, scaleProfile, type PhosphorusProfile } from '../phosphorus/profile.js';
-import type { PlanContent } from './plan.js';
+import type { PlanContent, PlanItem } from './plan.js';
+import type { AbsorptionFractions } from '../phosphorus/absorption.js';
+import { applicability, prepareAmounts, sourcesText } from '../preparation/apply.js';
+import { PREPARATION_METHODS, PREP_NUTRIENTS } from '../preparation/methods.js';
 import type {
   BinderSummary,
   Contributor,
   DayStatus,
   DaySummary,
   ItemNutrients,
+  ItemPreparation,
   ItemSummary,
+  MgRange,
+  PreparedRanges,
   Nutrients,
   NutrientKey,
   OccasionSummary,
@@ -48,7 +54,19 @@ interface Acc {
   ca: number;
   kcal: number;
   missing: Set<NutrientKey>;
+  /** Low and high ends of the amounts a preparation changes; set once any item is prepared. */
+  ranges: { low: RangeSums; high: RangeSums } | null;
 }
+
+interface RangeSums {
+  p: number;
+  prot: number;
+  k: number;
+  na: number;
+  ca: number;
+}
+
+const sums = (a: Acc): RangeSums => ({ p: a.p, prot: a.prot, k: a.k, na: a.na, ca: a.ca });
 
 const newAcc = (): Acc => ({
   p: 0,
@@ -62,9 +80,17 @@ const newAcc = (): Acc => ({
   ca: 0,
   kcal: 0,
   missing: new Set(),
+  ranges: null,
 });
 
 function addTo(acc: Acc, from: Acc): void {
+  if (from.ranges || acc.ranges) {
+    // Amounts without a preparation count with their one value at both ends of the range.
+    acc.ranges ??= { low: sums(acc), high: sums(acc) };
+    const add = from.ranges ?? { low: sums(from), high: sums(from) };
+    for (const end of ['low', 'high'] as const)
+      for (const k of ['p', 'prot', 'k', 'na', 'ca'] as const) acc.ranges[end][k] += add[end][k];
+  }
   acc.p += from.p;
   acc.aLow += from.aLow;
   acc.aTyp += from.aTyp;
@@ -105,6 +131,24 @@ function accToNutrients(a: Acc, divisor = 1): Nutrients {
     calciumMg: r1(d(a.ca)),
     energyKcal: r1(d(a.kcal)),
     incomplete: NUTRIENT_ORDER.filter((k) => a.missing.has(k)),
+    // Only when something is prepared, so summaries of plans without methods stay as they were.
+    ...(a.ranges ? { preparedRanges: rangesOut(a, divisor) } : {}),
+  };
+}
+
+function rangesOut(a: Acc, divisor: number): PreparedRanges {
+  const r = a.ranges as NonNullable<Acc['ranges']>;
+  const m = (k: keyof RangeSums, f: (x: number) => number): MgRange => ({
+    low: f(r.low[k] / divisor),
+    typical: f(a[k] / divisor),
+    high: f(r.high[k] / divisor),
+  });
+  return {
+    phosphorusMg: m('p', r1),
+    proteinG: m('prot', r2),
+    potassiumMg: m('k', r1),
+    sodiumMg: m('na', r1),
+    calciumMg: m('ca', r1),
   };
 }
 
@@ -210,6 +254,191 @@ function addContributor(
   } else map.set(facts.food.id, { facts, p, aTyp, occurrences: 1 });
 }
 
+/** One item's amounts and summary, after its preparation method when it has one. */
+function summarizeItem(
+  facts: FoodFacts,
+  it: PlanItem,
+  absorption: AbsorptionFractions,
+): { itemAcc: Acc; summary: ItemSummary } {
+  const { food } = facts;
+  const prepared = preparedItem(facts, it, absorption);
+  if (prepared) return prepared;
+  const scaled = scaleProfile(facts.profile, it.grams);
+  const f = it.grams / 100;
+  const per = food.per100g;
+  const itemAcc = newAcc();
+  const val = (v: number | null, key: NutrientKey): number | null => {
+    if (v === null) {
+      itemAcc.missing.add(key);
+      return null;
+    }
+    return v * f;
+  };
+  const p = scaled.totalMg;
+  if (p === null) itemAcc.missing.add('phosphorusMg');
+  const abs = scaled.absorbableMg;
+  if (abs === null) itemAcc.missing.add('absorbablePhosphorusMg');
+  const nutrients = fillAcc(itemAcc, {
+    p,
+    abs,
+    add: scaled.additiveMg,
+    prot: val(per.proteinG, 'proteinG'),
+    k: val(per.potassiumMg, 'potassiumMg'),
+    na: val(per.sodiumMg, 'sodiumMg'),
+    ca: val(per.calciumMg, 'calciumMg'),
+    kcal: val(per.energyKcal, 'energyKcal'),
+    ratio: facts.profile.ratioMgPerG,
+  });
+  const summary = itemSummary(facts, it, nutrients);
+  // 'as-listed' is said, with no factor, so the reader sees the choice was made.
+  if (it.preparation === 'as-listed') summary.preparation = asListedPreparation(it.grams);
+  return { itemAcc, summary };
+}
+
+interface ItemValues {
+  p: number | null;
+  abs: MgRange | null;
+  add: number | null;
+  prot: number | null;
+  k: number | null;
+  na: number | null;
+  ca: number | null;
+  kcal: number | null;
+  ratio: number | null;
+}
+
+/** Puts an item's values into its accumulator and returns them rounded for output. */
+function fillAcc(itemAcc: Acc, v: ItemValues): ItemNutrients {
+  itemAcc.p = v.p ?? 0;
+  itemAcc.aLow = v.abs?.low ?? 0;
+  itemAcc.aTyp = v.abs?.typical ?? 0;
+  itemAcc.aHigh = v.abs?.high ?? 0;
+  itemAcc.add = v.add ?? 0;
+  itemAcc.prot = v.prot ?? 0;
+  itemAcc.k = v.k ?? 0;
+  itemAcc.na = v.na ?? 0;
+  itemAcc.ca = v.ca ?? 0;
+  itemAcc.kcal = v.kcal ?? 0;
+  return {
+    phosphorusMg: rn(v.p, r1),
+    absorbablePhosphorusMg: v.abs
+      ? { low: r1(v.abs.low), typical: r1(v.abs.typical), high: r1(v.abs.high) }
+      : null,
+    additivePhosphorusMg: rn(v.add, r1),
+    proteinG: rn(v.prot, r2),
+    phosphorusProteinRatioMgPerG: rn(v.ratio, r1),
+    potassiumMg: rn(v.k, r1),
+    sodiumMg: rn(v.na, r1),
+    calciumMg: rn(v.ca, r1),
+    energyKcal: rn(v.kcal, r1),
+  };
+}
+
+function itemSummary(facts: FoodFacts, it: PlanItem, nutrients: ItemNutrients): ItemSummary {
+  const { food } = facts;
+  return {
+    foodId: food.id,
+    foodName: food.name,
+    foodCode: food.code,
+    source: food.source,
+    grams: r1(it.grams),
+    measure: it.measure
+      ? {
+          portionId: it.measure.portionId,
+          count: it.measure.count,
+          description: it.measure.description,
+        }
+      : null,
+    label: it.label ?? food.name,
+    nutrients,
+    splitMethod: facts.profile.method,
+    flags: { additive: facts.additive, highRatio: facts.highRatio },
+  };
+}
+
+function asListedPreparation(grams: number): ItemPreparation {
+  return {
+    method: 'as-listed',
+    label: PREPARATION_METHODS['as-listed'].label,
+    prepClass: null,
+    weightBasis: null,
+    tableGrams: r1(grams),
+    plateGrams: r1(grams),
+    factors: null,
+    yield: null,
+    ranges: null,
+    sources: ['as listed in the food table: no factor applied'],
+    notes: [],
+  };
+}
+
+/** An item with a preparation method (other than 'as-listed'), or null when it has none. */
+function preparedItem(
+  facts: FoodFacts,
+  it: PlanItem,
+  absorption: AbsorptionFractions,
+): { itemAcc: Acc; summary: ItemSummary } | null {
+  if (!it.preparation || it.preparation === 'as-listed') return null;
+  const a = applicability(facts.food, it.preparation);
+  // resolvePlan refused such items; a stored one means the rule changed since: shown as listed.
+  if (!a.ok) return null;
+  const basis = it.weightBasis ?? 'table';
+  const x = prepareAmounts(
+    facts.food,
+    facts.profile,
+    absorption,
+    it.grams,
+    basis,
+    it.preparation,
+    a,
+  );
+  const itemAcc = newAcc();
+  const typ = (r: MgRange | null, key: NutrientKey) => {
+    if (r === null) itemAcc.missing.add(key);
+    return r === null ? null : r.typical;
+  };
+  const p = typ(x.phosphorusMg, 'phosphorusMg');
+  if (x.absorbablePhosphorusMg === null) itemAcc.missing.add('absorbablePhosphorusMg');
+  const prot = typ(x.proteinG, 'proteinG');
+  const nutrients = fillAcc(itemAcc, {
+    p,
+    abs: x.absorbablePhosphorusMg,
+    add: x.additivePhosphorusMg,
+    prot,
+    k: typ(x.potassiumMg, 'potassiumMg'),
+    na: typ(x.sodiumMg, 'sodiumMg'),
+    ca: typ(x.calciumMg, 'calciumMg'),
+    kcal: x.energyKcal === null ? (itemAcc.missing.add('energyKcal'), null) : x.energyKcal,
+    ratio: facts.profile.ratioMgPerG !== null && p !== null && prot ? p / prot : null,
+  });
+  const end = (k: 'low' | 'high') => ({
+    p: x.phosphorusMg?.[k] ?? 0,
+    prot: x.proteinG?.[k] ?? 0,
+    k: x.potassiumMg?.[k] ?? 0,
+    na: x.sodiumMg?.[k] ?? 0,
+    ca: x.calciumMg?.[k] ?? 0,
+  });
+  itemAcc.ranges = { low: end('low'), high: end('high') };
+  const summary = itemSummary(facts, it, nutrients);
+  const fr = (r: MgRange): MgRange => ({ low: r.low, typical: r.typical, high: r.high });
+  summary.preparation = {
+    method: x.method,
+    label: PREPARATION_METHODS[x.method].label,
+    prepClass: x.prepClass,
+    weightBasis: x.weightBasis,
+    tableGrams: r1(x.tableGrams.typical),
+    plateGrams: r1(x.plateGrams.typical),
+    factors: Object.fromEntries(PREP_NUTRIENTS.map((n) => [n, fr(x.factors[n])])) as NonNullable<
+      ItemPreparation['factors']
+    >,
+    yield: fr(x.yield),
+    ranges: rangesOut(itemAcc, 1),
+    sources: sourcesText(x.factors, x.yield),
+    notes: x.notes,
+  };
+  return { itemAcc, summary };
+}
+
 /**
  * The plan summary (pure): per item, occasion, day and plan average, each day against the
  * targets, the top phosphorus contributors, additive and high-ratio flags, and the binder
@@ -261,71 +490,11 @@ export function summarizePlan(
       const items: ItemSummary[] = [];
       for (const it of occ.items) {
         const facts = factsOf(it.foodId);
-        const { food } = facts;
-        const scaled = scaleProfile(facts.profile, it.grams);
-        const f = it.grams / 100;
-        const per = food.per100g;
-        const itemAcc = newAcc();
-        const val = (v: number | null, key: NutrientKey): number | null => {
-          if (v === null) {
-            itemAcc.missing.add(key);
-            return null;
-          }
-          return v * f;
-        };
-        const p = scaled.totalMg;
-        if (p === null) itemAcc.missing.add('phosphorusMg');
-        const abs = scaled.absorbableMg;
-        if (abs === null) itemAcc.missing.add('absorbablePhosphorusMg');
-        const prot = val(per.proteinG, 'proteinG');
-        const k = val(per.potassiumMg, 'potassiumMg');
-        const na = val(per.sodiumMg, 'sodiumMg');
-        const ca = val(per.calciumMg, 'calciumMg');
-        const kcal = val(per.energyKcal, 'energyKcal');
-        itemAcc.p = p ?? 0;
-        itemAcc.aLow = abs?.low ?? 0;
-        itemAcc.aTyp = abs?.typical ?? 0;
-        itemAcc.aHigh = abs?.high ?? 0;
-        itemAcc.add = scaled.additiveMg ?? 0;
-        itemAcc.prot = prot ?? 0;
-        itemAcc.k = k ?? 0;
-        itemAcc.na = na ?? 0;
-        itemAcc.ca = ca ?? 0;
-        itemAcc.kcal = kcal ?? 0;
+        const { itemAcc, summary } = summarizeItem(facts, it, absorption);
         addTo(occAcc, itemAcc);
         addContributor(dayContrib, facts, itemAcc.p, itemAcc.aTyp);
         addContributor(planContrib, facts, itemAcc.p, itemAcc.aTyp);
-        const nutrients: ItemNutrients = {
-          phosphorusMg: rn(p, r1),
-          absorbablePhosphorusMg: abs
-            ? { low: r1(abs.low), typical: r1(abs.typical), high: r1(abs.high) }
-            : null,
-          additivePhosphorusMg: rn(scaled.additiveMg, r1),
-          proteinG: rn(prot, r2),
-          phosphorusProteinRatioMgPerG: rn(facts.profile.ratioMgPerG, r1),
-          potassiumMg: rn(k, r1),
-          sodiumMg: rn(na, r1),
-          calciumMg: rn(ca, r1),
-          energyKcal: rn(kcal, r1),
-        };
-        items.push({
-          foodId: food.id,
-          foodName: food.name,
-          foodCode: food.code,
-          source: food.source,
-          grams: r1(it.grams),
-          measure: it.measure
-            ? {
-                portionId: it.measure.portionId,
-                count: it.measure.count,
-                description: it.measure.description,
-              }
-            : null,
-          label: it.label ?? food.name,
-          nutrients,
-          splitMethod: facts.profile.method,
-          flags: { additive: facts.additive, highRatio: facts.highRatio },
-        });
+        items.push(summary);
       }
       addTo(dayAcc, occAcc);
       occasions.push({

@@ -2,6 +2,8 @@ import type { Food } from '../foods/food.js';
 import type { AbsorptionFractions } from '../phosphorus/absorption.js';
 import { nameWords } from '../foods/text.js';
 import { profileFood, type PhosphorusProfile } from '../phosphorus/profile.js';
+import { preparedSwap, type PreparedSwap } from '../preparation/swap.js';
+import { DEFAULT_ABSORPTION_FRACTIONS } from '../phosphorus/absorption.js';
 
 /** Below this protein (g/100 g) a food is compared per portion instead (common practice, no source). */
 export const SWAP_MIN_PROTEIN_G_PER_100G = 1;
@@ -39,6 +41,8 @@ export interface SwapResult {
   portion: { description: string; grams: number } | null;
   swaps: SwapCandidate[];
   rule: string;
+  /** The same food cooked so it loses phosphorus ("same food, boiled and drained"), when that clears the rule. */
+  prepared?: PreparedSwap | null;
 }
 
 /** The portion used for per-portion comparisons: the label serving, else the first household measure, else 100 g. */
@@ -144,6 +148,15 @@ export function rankSwaps(
     rule,
   };
   if (orig === null || orig <= 0) return { ...base, swaps: [] };
+  const prepared = preparedSwap(
+    original,
+    profileOf(original, opts.fractions),
+    opts.fractions ?? DEFAULT_ABSORPTION_FRACTIONS,
+    basis,
+    orig,
+    comparisonPortion(original).grams,
+    opts.maxShare,
+  );
   const limit = Math.max(0, Math.min(MAX_SWAPS, opts.limit));
   const origProt = original.per100g.proteinG ?? 0;
   const kind = kindWord(original.name);
@@ -179,5 +192,5 @@ export function rankSwaps(
       a.name.localeCompare(b.name) ||
       a.foodId - b.foodId,
   );
-  return { ...base, swaps: out.slice(0, limit) };
+  return { ...base, swaps: out.slice(0, limit), prepared };
 }

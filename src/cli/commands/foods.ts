@@ -3,6 +3,7 @@ import { FoodService } from '../../foods/foods.service.js';
 import { toFoodHit, toFoodJson } from '../../foods/food.json.js';
 import { toPhosphorusJson } from '../../phosphorus/phosphorus.json.js';
 import { PhosphorusService } from '../../phosphorus/phosphorus.service.js';
+import { toFoodPreparationJson } from '../../preparation/preparation.json.js';
 import { UsageError, type Command } from '../command.js';
 
 function fmt(n: number | null, digits = 0): string {
@@ -74,6 +75,7 @@ export const foodsShow: Command = {
     const json = {
       ...toFoodJson(food),
       phosphorus: toPhosphorusJson(profile),
+      ...toFoodPreparationJson(food),
       provenance: source
         ? {
             table: source.name,
@@ -96,6 +98,12 @@ export const foodsShow: Command = {
           `energy ${fmt(p.energyKcal)} kcal, K ${fmt(p.potassiumMg)} mg, Na ${fmt(p.sodiumMg)} mg, ` +
           `Ca ${fmt(p.calciumMg)} mg, water ${fmt(p.waterG, 1)} g, phytate ${fmt(p.phytateMg)} mg`,
         ...food.portions.map((x) => `  portion: ${x.amount} ${x.description} = ${x.grams} g`),
+        `state: ${json.cookedState} (${json.cookedStateBasis})`,
+        ...json.preparations.map(
+          (m) =>
+            `  preparation ${m.method} (${m.label}): P x${m.factors.phosphorus.typical}, ` +
+            `K x${m.factors.potassium.typical}, protein x${m.factors.protein.typical}`,
+        ),
         food.ingredients ? `ingredients: ${food.ingredients}` : '',
         source ? `source: ${source.name} ${source.release} (${source.licence})` : '',
       ]

@@ -10,6 +10,10 @@ export interface DraftItem {
   measure: { portionId: number; count: number; description?: string; gramsPerUnit?: number } | null;
   /** The words the patient uses for this food, in their language. */
   label?: string | null;
+  /** A preparation method id ('boil-drain', ...); absent or null = as the table lists it. */
+  preparation?: string | null;
+  /** With a method: whether the grams are of the food as listed (raw) or on the plate (cooked). */
+  weightBasis?: 'table' | 'plate';
 }
 export interface DraftOccasion {
   name: string;
@@ -134,6 +138,10 @@ export function toPlanInput(d: PlanDraft) {
             ? { measure: { portionId: it.measure.portionId, count: it.measure.count } }
             : { grams: it.grams }),
           ...(it.label ? { label: it.label } : {}),
+          ...(it.preparation ? { preparation: it.preparation } : {}),
+          ...(it.preparation && it.preparation !== 'as-listed' && it.weightBasis
+            ? { weightBasis: it.weightBasis }
+            : {}),
         })),
       })),
     })),

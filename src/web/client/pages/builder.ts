@@ -39,6 +39,9 @@ interface FoodInfo {
   id: number;
   name: string;
   portions: Measure[];
+  /** Raw entries list the preparation methods that apply; cooked or unknown ones none. */
+  cookedState?: 'raw' | 'cooked' | 'unknown';
+  preparations?: { method: string; label: string }[];
 }
 
 const planId = pageParams().id ?? '';
@@ -83,6 +86,7 @@ async function commit(next: PlanDraft): Promise<void> {
     const saved = await api<PlanJson>('PUT', endpoints.plan(planId), toPlanInput(draft));
     if (mine !== summarySeq) return;
     plan = saved;
+    draft = withResolvedBasis(draft, saved);
     dirty = false;
     setSaveState(saved.version ? `Saved as version ${saved.version}` : 'Saved');
     await refreshSummary(mine);
@@ -90,6 +94,23 @@ async function commit(next: PlanDraft): Promise<void> {
   } catch (err) {
     if (mine === summarySeq) setSaveState(`Not saved: ${errorText(err)}`, true);
   }
+}
+
+/** Takes the weight basis the server chose (the larger reading) for items that did not say. */
+function withResolvedBasis(d: PlanDraft, saved: PlanDraft): PlanDraft {
+  return {
+    ...d,
+    days: d.days.map((day, i) => ({
+      ...day,
+      occasions: day.occasions.map((o, j) => ({
+        ...o,
+        items: o.items.map((it, k) => {
+          const basis = saved.days[i]?.occasions[j]?.items[k]?.weightBasis;
+          return it.preparation && !it.weightBasis && basis ? { ...it, weightBasis: basis } : it;
+        }),
+      })),
+    })),
+  };
 }
 
 async function refreshSummary(mine = ++summarySeq): Promise<void> {
@@ -294,6 +315,94 @@ function wordsInput(
     }
   });
   return h('div', {}, input);
+}
+
+/**
+ * How the item is cooked: "as listed" or a method of the preparation table that applies to the
+ * food, and (with a method) which weight the quantity is. Native selects, so the keyboard works
+ * as everywhere (Tab to it, arrows or letters to choose).
+ */
+function preparationCell(
+  day: number,
+  occ: number,
+  k: number,
+  item: DraftItem,
+  name: string,
+  shown: SummaryItem | undefined,
+): HTMLElement {
+  const food = foods.get(item.foodId);
+  const chosen = item.preparation ?? 'as-listed';
+  const known = food?.preparations ?? [];
+  // Until the food's methods arrive, the item's own method stands in for them.
+  const offered =
+    chosen !== 'as-listed' && !known.some((m) => m.method === chosen)
+      ? [...known, { method: chosen, label: shown?.preparation?.label ?? chosen }]
+      : known;
+  const stateNote =
+    food?.cookedState === 'cooked'
+      ? 'already cooked in the table: no preparation factor'
+      : food?.cookedState === 'unknown'
+        ? 'the table does not say raw: no preparation factor'
+        : null;
+  const sel = h(
+    'select',
+    {
+      class: 'prep',
+      'aria-label': `Preparation of ${name}`,
+      'data-focus-key': `prep-${day}-${occ}-${k}`,
+      title: stateNote ?? 'how the food is cooked',
+    },
+    h('option', { value: 'as-listed', selected: chosen === 'as-listed' }, 'as listed'),
+    offered.map((m) => h('option', { value: m.method, selected: m.method === chosen }, m.label)),
+  ) as HTMLSelectElement;
+  sel.addEventListener('change', () => {
+    const method = sel.value === 'as-listed' ? null : sel.value;
+    // A household measure weighs the food as listed; typed grams keep the basis chosen, else
+    // the server reads them the way that gives the larger amounts (shown once saved).
+    const basis = item.measure ? 'table' : item.weightBasis;
+    const next: DraftItem = {
+      foodId: item.foodId,
+      grams: item.grams,
+      measure: item.measure,
+      ...(item.label !== undefined ? { label: item.label } : {}),
+      preparation: method,
+      ...(method && basis ? { weightBasis: basis } : {}),
+    };
+    void commit(replaceItem(draft, day, occ, k, next));
+  });
+  const parts: (HTMLElement | string)[] = [sel];
+  if (chosen !== 'as-listed') {
+    const basis = h(
+      'select',
+      {
+        class: 'prep-basis',
+        'aria-label': `Weight of ${name} is`,
+        'data-focus-key': `basis-${day}-${occ}-${k}`,
+      },
+      h('option', { value: 'table', selected: item.weightBasis === 'table' }, 'raw weight'),
+      h('option', { value: 'plate', selected: item.weightBasis !== 'table' }, 'plate weight'),
+    ) as HTMLSelectElement;
+    basis.addEventListener('change', () => {
+      void commit(
+        updateItem(draft, day, occ, k, {
+          weightBasis: basis.value === 'plate' ? 'plate' : 'table',
+        }),
+      );
+    });
+    parts.push(' ', basis);
+    const p = shown?.preparation;
+    if (p)
+      parts.push(
+        h(
+          'span',
+          { class: 'prep-note', title: p.sources.join('\n') },
+          ` ${p.tableGrams} g raw = ${p.plateGrams} g cooked; P x${p.factors?.phosphorus.typical ?? 1}, K x${p.factors?.potassium.typical ?? 1}`,
+        ),
+      );
+  } else if (stateNote && offered.length === 0) {
+    parts.push(h('span', { class: 'prep-note' }, ` ${stateNote}`));
+  }
+  return h('div', { class: 'prep-cell' }, parts);
 }
 
 function quantityCell(day: number, occ: number, k: number, item: DraftItem): HTMLElement {
@@ -503,6 +612,7 @@ function renderMeals(): void {
                           ])
                         : null,
                       wordsInput(activeDay, j, k, item, name),
+                      preparationCell(activeDay, j, k, item, name, s),
                     ),
                     quantityCell(activeDay, j, k, item),
                     h('td', { class: 'n num' }, mg(s?.nutrients.phosphorusMg)),
@@ -809,6 +919,7 @@ async function showSwaps(c: Contributor): Promise<void> {
               ),
             ),
           ),
+      preparedSwapLine(c, res),
       h('p', { class: 'source' }, res.rule),
       h(
         'p',
@@ -819,6 +930,76 @@ async function showSwaps(c: Contributor): Promise<void> {
   } catch (err) {
     fill(el, h('p', { class: 'status error' }, `Swaps unavailable: ${errorText(err)}`));
   }
+}
+
+/** "Same food, boiled and drained": the swap is the method, applied to the food's items. */
+function preparedSwapLine(c: Contributor, res: SwapResult): HTMLElement | null {
+  const p = res.prepared;
+  if (!p) return null;
+  return h(
+    'p',
+    { class: 'swap-prepared' },
+    `Same food, ${p.label.toLowerCase()}`,
+    h(
+      'span',
+      { class: 'muted small' },
+      ` — ${Math.round(p.shareOfOriginal * 100)} % of its absorbable phosphorus ${res.basis === 'per-g-protein' ? 'per g protein' : 'per portion'}`,
+    ),
+    ' ',
+    h(
+      'button',
+      {
+        type: 'button',
+        class: 'btn btn-small',
+        title: p.sources.join('\n'),
+        'aria-label': `Cook ${c.name}: ${p.label}`,
+        onclick: () => void usePreparation(c.foodId, p.method),
+      },
+      'Use',
+    ),
+  );
+}
+
+/** The plan with one item replaced whole (so a field can be dropped, not only changed). */
+function replaceItem(
+  d: PlanDraft,
+  day: number,
+  occ: number,
+  k: number,
+  item: DraftItem,
+): PlanDraft {
+  return {
+    ...d,
+    days: d.days.map((x, i) =>
+      i !== day
+        ? x
+        : {
+            ...x,
+            occasions: x.occasions.map((o, j) =>
+              j !== occ ? o : { ...o, items: o.items.map((it, n) => (n === k ? item : it)) },
+            ),
+          },
+    ),
+  };
+}
+
+/** Sets the method on every item of the food in the shown day that has none yet. */
+async function usePreparation(foodId: number, method: string): Promise<void> {
+  let next = draft;
+  draft.days[activeDay]?.occasions.forEach((o, j) => {
+    o.items.forEach((it, k) => {
+      if (it.foodId === foodId && !it.preparation)
+        // Typed grams: the server reads them the way that gives the larger amounts.
+        next = updateItem(
+          next,
+          activeDay,
+          j,
+          k,
+          it.measure ? { preparation: method, weightBasis: 'table' } : { preparation: method },
+        );
+    });
+  });
+  await commit(next);
 }
 
 /** Replaces every item of the food in the shown day, keeping each item's weight in grams. */
@@ -926,7 +1107,13 @@ async function loadFood(id: number, name?: string): Promise<void> {
   if (foods.has(id)) return;
   try {
     const f = await api<FoodInfo>('GET', endpoints.food(id));
-    foods.set(id, { id, name: f.name, portions: f.portions });
+    foods.set(id, {
+      id,
+      name: f.name,
+      portions: f.portions,
+      cookedState: f.cookedState ?? 'unknown',
+      preparations: f.preparations ?? [],
+    });
   } catch {
     foods.set(id, { id, name: name ?? `food ${id}`, portions: [] });
   }
