@@ -61,6 +61,7 @@ export function demoPatient(today: Date): PatientInput {
       otherMedicines: ['levothyroxine'],
     },
     targetOverrides: {},
+    identifier: null,
   };
 }
 
