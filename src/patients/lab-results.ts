@@ -151,3 +151,16 @@ export function typedLab(
 export function analyteLabel(a: Analyte): string {
   return ANALYTE_DEFINITIONS[a].label;
 }
+
+/**
+ * Two results are the same when they measure the same analyte at the same time with the same
+ * value: times compared when both carry one, else the dates (a typed result has no time).
+ */
+export function isSameResult(
+  a: Pick<LabRecord, 'analyte' | 'date' | 'takenAt' | 'canonicalValue'>,
+  b: Pick<LabRecord, 'analyte' | 'date' | 'takenAt' | 'canonicalValue'>,
+): boolean {
+  if (a.analyte !== b.analyte) return false;
+  const sameTime = a.takenAt && b.takenAt ? a.takenAt === b.takenAt : a.date === b.date;
+  return sameTime && Math.abs(a.canonicalValue - b.canonicalValue) <= 1e-9 * Math.max(1, Math.abs(a.canonicalValue));
+}
