@@ -66,7 +66,10 @@ export const ANALYTE_DEFINITIONS: Readonly<Record<Analyte, AnalyteDefinition>> =
     canonicalUnit: 'mg/dL',
     units: { 'mg/dL': 'mg/dL', 'mmol/L': 'mmol/L' },
     // Serum phosphate is reported as phosphorus: 1 mmol = 30.974 mg.
-    molarMass: { gPerMol: ATOMIC_WEIGHTS_G_PER_MOL.P ?? NaN, source: `P; ${ATOMIC_WEIGHTS_SOURCE}` },
+    molarMass: {
+      gPerMol: ATOMIC_WEIGHTS_G_PER_MOL.P ?? NaN,
+      source: `P; ${ATOMIC_WEIGHTS_SOURCE}`,
+    },
     charge: null,
     plausible: { min: 0.3, max: 20 },
   },

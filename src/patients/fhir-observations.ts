@@ -42,7 +42,9 @@ type Reading = { ok: true; value: ObservationResult } | { ok: false; reason: str
 
 function identifiersOf(ids: readonly Identifier[] | undefined) {
   return (ids ?? [])
-    .filter((i): i is Identifier & { value: string } => typeof i.value === 'string' && i.value !== '')
+    .filter(
+      (i): i is Identifier & { value: string } => typeof i.value === 'string' && i.value !== '',
+    )
     .map((i) => ({ system: i.system ?? null, value: i.value }));
 }
 
@@ -63,33 +65,46 @@ function effective(o: Observation): { date: string; takenAt: string | null } | s
   const raw = o.effectiveDateTime ?? o.effectivePeriod?.start ?? o.effectiveInstant;
   if (!raw) return 'effectiveDateTime: the time the sample was taken is missing';
   const m = /^(\d{4}-\d{2}-\d{2})(T.+)?$/.exec(raw);
-  if (!m?.[1]) return `effectiveDateTime: '${raw}' is not a full date (YYYY-MM-DD[Thh:mm:ss+zz:zz])`;
+  if (!m?.[1])
+    return `effectiveDateTime: '${raw}' is not a full date (YYYY-MM-DD[Thh:mm:ss+zz:zz])`;
   const date = m[1];
-  if (Number.isNaN(Date.parse(`${date}T00:00:00Z`))) return `effectiveDateTime: '${raw}' is not a real date`;
+  if (Number.isNaN(Date.parse(`${date}T00:00:00Z`)))
+    return `effectiveDateTime: '${raw}' is not a real date`;
   if (!m[2]) return { date, takenAt: null };
   const t = Date.parse(raw);
   if (Number.isNaN(t)) return `effectiveDateTime: '${raw}' is not a valid time`;
   return { date, takenAt: new Date(t).toISOString() };
 }
 
-function readObservation(o: Observation, entry: number, patients: Map<string, FhirPatient>): Reading {
+function readObservation(
+  o: Observation,
+  entry: number,
+  patients: Map<string, FhirPatient>,
+): Reading {
   const fail = (where: string, why: string): Reading => ({
     ok: false,
     reason: `entry[${entry}]${o.id ? ` (Observation ${o.id})` : ''} ${where}: ${why}`,
   });
   if (!IMPORTED_STATUSES.has(o.status)) {
-    return fail('status', `'${String(o.status)}' is not imported (final, amended or corrected only)`);
+    return fail(
+      'status',
+      `'${String(o.status)}' is not imported (final, amended or corrected only)`,
+    );
   }
   const codings = o.code?.coding ?? [];
-  const loinc = codings.find((c) => c.system === LOINC_SYSTEM && c.code && ANALYTE_BY_LOINC.has(c.code));
+  const loinc = codings.find(
+    (c) => c.system === LOINC_SYSTEM && c.code && ANALYTE_BY_LOINC.has(c.code),
+  );
   if (!loinc?.code) {
     const seen = codings.map((c) => `${c.system ?? '?'}|${c.code ?? '?'}`).join(', ') || 'none';
     return fail('code.coding', `no LOINC code this product follows (found ${seen})`);
   }
   const analyte = ANALYTE_BY_LOINC.get(loinc.code) as Analyte;
   const q = o.valueQuantity;
-  if (!q || typeof q.value !== 'number') return fail('valueQuantity.value', 'a numeric result is missing');
-  if (q.comparator) return fail('valueQuantity.comparator', `'${q.comparator}' results are not stored as values`);
+  if (!q || typeof q.value !== 'number')
+    return fail('valueQuantity.value', 'a numeric result is missing');
+  if (q.comparator)
+    return fail('valueQuantity.comparator', `'${q.comparator}' results are not stored as values`);
   if (q.system && q.system !== UCUM_SYSTEM) {
     return fail('valueQuantity.system', `'${q.system}' is not UCUM (${UCUM_SYSTEM})`);
   }
@@ -106,7 +121,8 @@ function readObservation(o: Observation, entry: number, patients: Map<string, Fh
     if (!p) return fail('subject.reference', `'${ref}' names no Patient entry in this Bundle`);
     subjectIdentifiers = identifiersOf(p.identifier);
   }
-  if (subjectIdentifiers.length === 0) return fail('subject', 'the patient carries no identifier to match');
+  if (subjectIdentifiers.length === 0)
+    return fail('subject', 'the patient carries no identifier to match');
   return {
     ok: true,
     value: {
@@ -132,7 +148,10 @@ export function readObservationBundle(doc: unknown): BundleReading {
     return { ok: false, reason: 'the file is not a JSON object (a FHIR Bundle is expected)' };
   }
   if (b.resourceType !== 'Bundle') {
-    return { ok: false, reason: `resourceType is '${String(b.resourceType)}', a FHIR Bundle is expected` };
+    return {
+      ok: false,
+      reason: `resourceType is '${String(b.resourceType)}', a FHIR Bundle is expected`,
+    };
   }
   if (b.entry !== undefined && !Array.isArray(b.entry)) {
     return { ok: false, reason: 'entry must be a list of Bundle entries' };
@@ -148,7 +167,10 @@ export function readObservationBundle(doc: unknown): BundleReading {
     }
     if (r.resourceType === 'Patient') return;
     if (r.resourceType !== 'Observation') {
-      rejected.push({ entry: i, reason: `entry[${i}] resourceType: '${String(r.resourceType)}' is not imported (Observation only)` });
+      rejected.push({
+        entry: i,
+        reason: `entry[${i}] resourceType: '${String(r.resourceType)}' is not imported (Observation only)`,
+      });
       return;
     }
     const read = readObservation(r as Observation, i, patients);

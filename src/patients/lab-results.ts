@@ -96,9 +96,7 @@ export function toLabListItem(r: LabRecord): LabListItem {
 /** Newest first: by date, then time, then the order they were stored. */
 export function newestFirst(a: LabRecord, b: LabRecord): number {
   return (
-    b.date.localeCompare(a.date) ||
-    (b.takenAt ?? '').localeCompare(a.takenAt ?? '') ||
-    b.id - a.id
+    b.date.localeCompare(a.date) || (b.takenAt ?? '').localeCompare(a.takenAt ?? '') || b.id - a.id
   );
 }
 
@@ -162,5 +160,8 @@ export function isSameResult(
 ): boolean {
   if (a.analyte !== b.analyte) return false;
   const sameTime = a.takenAt && b.takenAt ? a.takenAt === b.takenAt : a.date === b.date;
-  return sameTime && Math.abs(a.canonicalValue - b.canonicalValue) <= 1e-9 * Math.max(1, Math.abs(a.canonicalValue));
+  return (
+    sameTime &&
+    Math.abs(a.canonicalValue - b.canonicalValue) <= 1e-9 * Math.max(1, Math.abs(a.canonicalValue))
+  );
 }

@@ -56,7 +56,10 @@ export function toCanonical(analyte: Analyte, value: number, unit: string): Conv
   };
   const r = ucumUtils().convertUnitTo(code, value, def.canonicalUnit, opts);
   if (r.status !== 'succeeded' || r.toVal === null) {
-    return { ok: false, reason: `cannot convert ${unit} to ${def.canonicalUnit}: ${r.msg.join('; ')}` };
+    return {
+      ok: false,
+      reason: `cannot convert ${unit} to ${def.canonicalUnit}: ${r.msg.join('; ')}`,
+    };
   }
   const canonicalValue = roundSig(r.toVal, 6);
   const { min, max } = def.plausible;
@@ -99,6 +102,9 @@ export const CORRECTED_CALCIUM_CAUTION =
   'An estimate: KDIGO 2017 CKD-MBD notes that albumin-corrected calcium agrees poorly with ionised calcium in CKD; the care team interprets it.';
 
 /** Albumin-corrected calcium, mg/dL, from total calcium (mg/dL) and albumin (g/dL) (Payne 1973). */
-export function correctedCalciumMgPerDl(totalCalciumMgPerDl: number, albuminGPerDl: number): number {
+export function correctedCalciumMgPerDl(
+  totalCalciumMgPerDl: number,
+  albuminGPerDl: number,
+): number {
   return totalCalciumMgPerDl + 0.8 * (4.0 - albuminGPerDl);
 }

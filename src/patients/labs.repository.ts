@@ -58,7 +58,9 @@ export class LabRepository {
     const rows = await this.db
       .selectFrom('lab_result')
       .selectAll()
-      .where(sql<boolean>`patient_id in (select value from json_each(${JSON.stringify(patientIds)}))`)
+      .where(
+        sql<boolean>`patient_id in (select value from json_each(${JSON.stringify(patientIds)}))`,
+      )
       .orderBy('patient_id')
       .orderBy('taken_on', 'desc')
       .orderBy('taken_at', 'desc')
@@ -120,7 +122,9 @@ export class LabRepository {
       .select('id')
       .where('identifier_value', '=', value)
       .where((eb) =>
-        system === null ? eb('identifier_system', 'is', null) : eb('identifier_system', '=', system),
+        system === null
+          ? eb('identifier_system', 'is', null)
+          : eb('identifier_system', '=', system),
       )
       .executeTakeFirst();
     return r?.id;

@@ -116,9 +116,10 @@ export class LabService {
           date: r.date,
           takenAt: r.takenAt,
           source: opts.source,
-          sourceRef: [opts.sourceRef, r.observationId ? `Observation/${r.observationId}` : null]
-            .filter(Boolean)
-            .join(' ') || null,
+          sourceRef:
+            [opts.sourceRef, r.observationId ? `Observation/${r.observationId}` : null]
+              .filter(Boolean)
+              .join(' ') || null,
           loincCode: r.loincCode,
           enteredBy: opts.by,
         };

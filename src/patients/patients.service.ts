@@ -105,7 +105,12 @@ export class PatientService {
       await this.repo.update(id, parsed.data, at, trx);
       // the history behind the trend view: when the prescription changed, as written
       if (binderChanged) {
-        const change = { binder: parsed.data.binder, changedAt: at, changedBy: by, source: 'record' };
+        const change = {
+          binder: parsed.data.binder,
+          changedAt: at,
+          changedBy: by,
+          source: 'record',
+        };
         await this.labs.addBinderChange(trx, id, change);
       }
     });

@@ -93,6 +93,7 @@ describe('route inventory: no non-public route answers without a session', () =>
       /^\/api\/patients/,
       /^\/api\/plans/,
       /^\/api\/diary/,
+      /^\/api\/labs/,
       /^\/api\/handouts?\/(?!languages$)/,
       /^\/plans\/:id\/handout/,
     ];
