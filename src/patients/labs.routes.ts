@@ -5,6 +5,7 @@ import type { Clock } from '../clock.js';
 import type { Db } from '../db/database.js';
 import { labResultInputSchema, toLabListItem } from './lab-results.js';
 import { LabService } from './labs.service.js';
+import { TrendService } from './trends.service.js';
 
 const idParams = z.object({ id: z.coerce.number().int().positive() });
 
@@ -17,6 +18,7 @@ const bundleBody = z.looseObject({ resourceType: z.string() });
  */
 export const labRoutes: FastifyPluginAsync<{ db: Db; clock: Clock }> = async (app, opts) => {
   const service = new LabService(opts.db.kysely, opts.clock);
+  const trends = new TrendService(opts.db, opts.clock);
   const api = app.withTypeProvider<ZodTypeProvider>();
 
   api.get(
@@ -62,6 +64,20 @@ export const labRoutes: FastifyPluginAsync<{ db: Db; clock: Clock }> = async (ap
       },
     },
     async (req) => service.latestCanonical(req.params.id),
+  );
+
+  api.get(
+    '/patients/:id/trends',
+    {
+      config: { patientData: true, audit: { action: 'labs.trends', entity: 'patient' } },
+      schema: {
+        tags: ['labs'],
+        summary:
+          'Results over time with the clinic band, corrected calcium, plan versions (planned daily absorbable phosphorus) and binder changes',
+        params: idParams,
+      },
+    },
+    async (req) => trends.trends(req.params.id),
   );
 
   api.post(
