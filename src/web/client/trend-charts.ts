@@ -30,9 +30,17 @@ export function timeDomain(t: Trends): [Date, Date] | null {
   return [new Date(day(first).getTime() - 3 * DAY_MS), new Date(day(last).getTime() + 3 * DAY_MS)];
 }
 
-/** Plot adds a <style> element; the page's CSP allows no inline style, app.css carries it. */
-function withoutInlineStyle(el: Element): Element {
+/**
+ * Fits a Plot chart to the page: Plot adds a <style> element (the CSP allows no inline style;
+ * app.css carries its rules) and labels its mark groups with aria-label but no role, which
+ * WCAG checks refuse. The chart becomes one image with its label; the table beside it carries
+ * the values for screen readers.
+ */
+function forThePage(el: Element): Element {
   for (const s of el.querySelectorAll('style')) s.remove();
+  for (const g of el.querySelectorAll('[aria-label]')) g.removeAttribute('aria-label');
+  for (const g of el.querySelectorAll('[aria-description]')) g.removeAttribute('aria-description');
+  el.setAttribute('role', 'img');
   el.setAttribute('class', `${el.getAttribute('class') ?? ''} trend-svg`.trim());
   return el;
 }
@@ -94,7 +102,7 @@ function analyteChart(a: AnalyteTrend, t: Trends, domain: [Date, Date]): Element
       }),
     ],
   });
-  return withoutInlineStyle(svg);
+  return forThePage(svg);
 }
 
 function bandText(a: AnalyteTrend): string {
@@ -159,7 +167,7 @@ function planChart(t: Trends, domain: [Date, Date]): Element {
       ...eventMarks(t),
     ],
   });
-  return withoutInlineStyle(svg);
+  return forThePage(svg);
 }
 
 function eventsTable(t: Trends): HTMLTableElement {
