@@ -45,7 +45,10 @@ export const DEFAULT_LAB_BANDS: LabBands = {
   calcium: both(8.5, 10.2),
   pth: {
     notOnDialysis: { min: null, max: PTH_ASSAY_UPPER_LIMIT_PG_PER_ML },
-    onDialysis: { min: 2 * PTH_ASSAY_UPPER_LIMIT_PG_PER_ML, max: 9 * PTH_ASSAY_UPPER_LIMIT_PG_PER_ML },
+    onDialysis: {
+      min: 2 * PTH_ASSAY_UPPER_LIMIT_PG_PER_ML,
+      max: 9 * PTH_ASSAY_UPPER_LIMIT_PG_PER_ML,
+    },
   },
   albumin: both(3.5, 5.0),
   potassium: both(3.5, 5.0),
@@ -58,7 +61,7 @@ export const LAB_BAND_SOURCES: Record<Analyte, string> = {
   phosphate:
     'KDIGO 2017 CKD-MBD guideline update (Kidney Int Suppl 2017;7:1-59) 4.1.2: lower elevated phosphate toward the normal range; adult normal range 2.5-4.5 mg/dL (Kalantar-Zadeh K et al., CJASN 2010;5:519-530)',
   calcium:
-    'KDIGO 2017 CKD-MBD 4.1.3: avoid hypercalcaemia; 8.5-10.2 mg/dL is assumed (no published figure): a common laboratory range, set your laboratory\'s',
+    "KDIGO 2017 CKD-MBD 4.1.3: avoid hypercalcaemia; 8.5-10.2 mg/dL is assumed (no published figure): a common laboratory range, set your laboratory's",
   pth: "KDIGO 2017 CKD-MBD 4.2.3: on dialysis about 2-9 times the assay's upper normal limit; not on dialysis the optimal level is not known (4.2.1), the band shows the upper normal limit. The 65 pg/mL limit is assumed (no published figure): set your assay's",
   albumin:
     "assumed (no published figure): 3.5-5.0 g/dL, a common laboratory range; set your laboratory's",

@@ -53,7 +53,12 @@ export interface BinderMark {
 export interface Trends {
   analytes: AnalyteTrend[];
   correctedCalcium: {
-    points: Array<{ date: string; totalMgPerDl: number; albuminGPerDl: number; correctedMgPerDl: number }>;
+    points: Array<{
+      date: string;
+      totalMgPerDl: number;
+      albuminGPerDl: number;
+      correctedMgPerDl: number;
+    }>;
     formula: string;
     caution: string;
   };
@@ -102,7 +107,10 @@ export function buildTrends(input: {
   binderChanges: ReadonlyArray<{ binder: BinderPrescription | null; changedAt: string }>;
 }): Trends {
   const oldestFirst = [...input.labs].sort(
-    (a, b) => a.date.localeCompare(b.date) || (a.takenAt ?? '').localeCompare(b.takenAt ?? '') || a.id - b.id,
+    (a, b) =>
+      a.date.localeCompare(b.date) ||
+      (a.takenAt ?? '').localeCompare(b.takenAt ?? '') ||
+      a.id - b.id,
   );
   const side = input.dialysis === 'none' ? 'notOnDialysis' : 'onDialysis';
   const analytes = ANALYTES.map((a): AnalyteTrend => {

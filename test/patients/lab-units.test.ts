@@ -61,8 +61,7 @@ describe('serum unit conversions through UCUM (@lhncbc/ucum-lhc) with IUPAC atom
     const bad = toCanonical('calcium', 9, 'mmol/L');
     expect(bad).toEqual({
       ok: false,
-      reason:
-        'calcium 9 mmol/L (36.1 mg/dL) is outside 2-20 mg/dL: check the value and its unit',
+      reason: 'calcium 9 mmol/L (36.1 mg/dL) is outside 2-20 mg/dL: check the value and its unit',
     });
     const unit = toCanonical('potassium', 5, 'mg/dL');
     expect(unit.ok).toBe(false);
@@ -78,8 +77,12 @@ describe('serum unit conversions through UCUM (@lhncbc/ucum-lhc) with IUPAC atom
     });
     expect(parsed.error?.issues[0]).toMatchObject({ path: ['value'] });
     expect(
-      labResultInputSchema.safeParse({ analyte: 'urea', value: 5, unit: 'mmol/L', date: '2026-02-01' })
-        .success,
+      labResultInputSchema.safeParse({
+        analyte: 'urea',
+        value: 5,
+        unit: 'mmol/L',
+        date: '2026-02-01',
+      }).success,
     ).toBe(false);
   });
 

@@ -98,8 +98,8 @@ describe('trend view on the patient record in Chromium', () => {
       // Under CI a missing browser is a failure, not a skip.
       expect(hasChromium, MISSING).toBe(true);
       await signInThroughPage(hs, '/patients/1');
-    // the sign-in screen's own 401 (no session yet) is not the trend view's
-    consoleErrors.length = 0;
+      // the sign-in screen's own 401 (no session yet) is not the trend view's
+      consoleErrors.length = 0;
       await page.waitForSelector('[data-chart="phosphate"] svg', { timeout: 15_000 });
 
       // phosphate: the demo's own result (2 Jan, 1.94 mmol/L) and the four above

@@ -110,15 +110,17 @@ function renderLabs(p: Patient): void {
           h(
             'tbody',
             {},
-            p.labs.slice(0, 8).map((l) =>
-              h(
-                'tr',
-                {},
-                h('td', { class: 'num' }, l.date),
-                h('td', {}, analyteName(l.analyte)),
-                h('td', { class: 'num' }, labText(l)),
+            p.labs
+              .slice(0, 8)
+              .map((l) =>
+                h(
+                  'tr',
+                  {},
+                  h('td', { class: 'num' }, l.date),
+                  h('td', {}, analyteName(l.analyte)),
+                  h('td', { class: 'num' }, labText(l)),
+                ),
               ),
-            ),
           ),
         ),
     h(
@@ -255,7 +257,10 @@ function renderAll(p: Patient): void {
 function fillUnits(): void {
   const analyte = byId<HTMLSelectElement>('lab-kind').value as (typeof ANALYTES)[number];
   const units = Object.keys(ANALYTE_DEFINITIONS[analyte]?.units ?? {}).filter((u) => u !== 'ug/L');
-  fill(byId('lab-unit'), units.map((u) => h('option', { value: u }, u)));
+  fill(
+    byId('lab-unit'),
+    units.map((u) => h('option', { value: u }, u)),
+  );
 }
 fill(
   byId('lab-kind'),
@@ -305,7 +310,10 @@ async function loadTrends(): Promise<void> {
   try {
     fill(byId('trends'), renderTrends(await api<Trends>('GET', endpoints.patientTrends(id))));
   } catch (err) {
-    fill(byId('trends'), h('p', { class: 'status error' }, `Trends unavailable: ${errorText(err)}`));
+    fill(
+      byId('trends'),
+      h('p', { class: 'status error' }, `Trends unavailable: ${errorText(err)}`),
+    );
   }
 }
 
