@@ -198,6 +198,53 @@ describe('lab results over HTTP', () => {
   });
 });
 
+describe('results and binder history follow the patient (access and erasure, GDPR Art. 15, 17)', () => {
+  it('exports the rows with the patient and erases them with the patient', async () => {
+    const ctx = await createTestContext({ as: 'admin' });
+    try {
+      const created = await ctx.inject({
+        method: 'POST',
+        url: '/api/patients',
+        payload: {
+          ...PATIENT,
+          binder: {
+            ingredient: 'calcium-acetate',
+            unitStrengthMg: 667,
+            schedule: 'per-day',
+            units: 6,
+          },
+          labs: [{ analyte: 'albumin', value: 35, unit: 'g/L', date: '2026-01-12' }],
+        },
+      });
+      expect(created.statusCode).toBe(201);
+      // results are added through their own route now, not through the record
+      const patch = await ctx.inject({
+        method: 'PATCH',
+        url: '/api/patients/1',
+        payload: { labs: [] },
+      });
+      expect(patch.statusCode).toBe(400);
+      const exported = (await ctx.inject('/api/patients/1/export')).json();
+      expect(exported.related.lab_result).toHaveLength(1);
+      expect(exported.related.lab_result[0]).toMatchObject({
+        analyte: 'albumin',
+        canonical_value: 3.5,
+      });
+      expect(exported.related.binder_change).toHaveLength(1);
+      const erased = await ctx.inject({
+        method: 'POST',
+        url: '/api/patients/1/erase',
+        payload: { confirm: 'erase' },
+      });
+      expect(erased.statusCode).toBe(200);
+      expect(erased.json().deleted).toMatchObject({ lab_result: 1, binder_change: 1, patient: 1 });
+      expect(ctx.db.sqlite.prepare('select count(*) n from lab_result').get()).toEqual({ n: 0 });
+    } finally {
+      await ctx.close();
+    }
+  });
+});
+
 describe('phosledger labs (CLI contract)', () => {
   let dir: string;
   let dbFile: string;
