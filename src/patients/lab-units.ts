@@ -29,6 +29,26 @@ export function ucumCodeFor(analyte: Analyte, unit: string): string | undefined 
   return Object.entries(def.units).find(([k]) => k.toLowerCase() === lower)?.[1];
 }
 
+/**
+ * Canonical units per unit entered, asked of UCUM once per analyte and unit: every unit here is
+ * a ratio scale (no offset), so converting 1 gives the factor for any value.
+ */
+const factors = new Map<string, number | string>();
+function factorToCanonical(analyte: Analyte, code: string): number | string {
+  const key = `${analyte}|${code}`;
+  let f = factors.get(key);
+  if (f === undefined) {
+    const def = ANALYTE_DEFINITIONS[analyte];
+    const r = ucumUtils().convertUnitTo(code, 1, def.canonicalUnit, {
+      ...(def.molarMass ? { molecularWeight: def.molarMass.gPerMol } : {}),
+      ...(def.charge ? { charge: def.charge } : {}),
+    });
+    f = r.status === 'succeeded' && r.toVal !== null ? r.toVal : r.msg.join('; ');
+    factors.set(key, f);
+  }
+  return f;
+}
+
 /** Units accepted for an analyte, as written on a report. */
 export function acceptedUnits(analyte: Analyte): string[] {
   return Object.keys(ANALYTE_DEFINITIONS[analyte].units);
@@ -50,18 +70,11 @@ export function toCanonical(analyte: Analyte, value: number, unit: string): Conv
       reason: `unit '${unit}' is not taken for ${analyte}: use ${acceptedUnits(analyte).join(', ')}`,
     };
   }
-  const opts = {
-    ...(def.molarMass ? { molecularWeight: def.molarMass.gPerMol } : {}),
-    ...(def.charge ? { charge: def.charge } : {}),
-  };
-  const r = ucumUtils().convertUnitTo(code, value, def.canonicalUnit, opts);
-  if (r.status !== 'succeeded' || r.toVal === null) {
-    return {
-      ok: false,
-      reason: `cannot convert ${unit} to ${def.canonicalUnit}: ${r.msg.join('; ')}`,
-    };
+  const factor = factorToCanonical(analyte, code);
+  if (typeof factor === 'string') {
+    return { ok: false, reason: `cannot convert ${unit} to ${def.canonicalUnit}: ${factor}` };
   }
-  const canonicalValue = roundSig(r.toVal, 6);
+  const canonicalValue = roundSig(value * factor, 6);
   const { min, max } = def.plausible;
   if (canonicalValue < min || canonicalValue > max) {
     return {

@@ -99,18 +99,6 @@ export class LabRepository {
     }
   }
 
-  /** Results of a patient for one analyte taken on one date (to find duplicates). */
-  async sameDay(trx: Q, patientId: number, analyte: Analyte, date: string): Promise<LabRecord[]> {
-    const rows = await trx
-      .selectFrom('lab_result')
-      .selectAll()
-      .where('patient_id', '=', patientId)
-      .where('analyte', '=', analyte)
-      .where('taken_on', '=', date)
-      .execute();
-    return rows.map(rowToLab);
-  }
-
   /** Patient id by the identifier the clinic's record system uses (system null = none given). */
   async patientByIdentifier(
     trx: Q,

@@ -16,6 +16,15 @@ import {
 } from './lab-results.js';
 import { LabRepository } from './labs.repository.js';
 
+type SameResultKey = Pick<LabRecord, 'analyte' | 'date' | 'takenAt' | 'canonicalValue'>;
+
+function addKnown(byDay: Map<string, SameResultKey[]>, r: SameResultKey): void {
+  const key = `${r.analyte}|${r.date}`;
+  const list = byDay.get(key) ?? [];
+  list.push(r);
+  byDay.set(key, list);
+}
+
 /** The `labs import` answer (a fixed contract). */
 export interface LabImportResult {
   imported: number;
@@ -96,8 +105,14 @@ export class LabService {
     return this.db.transaction().execute(async (trx) => {
       const toStore: NewLabRecord[] = [];
       let duplicates = 0;
+      // per import: each identifier is looked up once, each patient's results are read once
+      const patientOf = new Map<string, number | undefined>();
+      const known = new Map<number, Map<string, SameResultKey[]>>();
       for (const r of reading.results) {
-        const patientId = await this.matchPatient(trx, r.subjectIdentifiers);
+        const idKey = JSON.stringify(r.subjectIdentifiers);
+        if (!patientOf.has(idKey))
+          patientOf.set(idKey, await this.matchPatient(trx, r.subjectIdentifiers));
+        const patientId = patientOf.get(idKey);
         if (patientId === undefined) {
           const ids = r.subjectIdentifiers.map((i) => `${i.system ?? '(no system)'}|${i.value}`);
           rejected.push({
@@ -123,12 +138,17 @@ export class LabService {
           loincCode: r.loincCode,
           enteredBy: opts.by,
         };
-        const stored = await this.repo.sameDay(trx, patientId, r.analyte, r.date);
-        const inFile = toStore.filter((s) => s.patientId === patientId);
-        if ([...stored, ...inFile].some((s) => isSameResult(s, record))) {
+        let byDay = known.get(patientId);
+        if (!byDay) {
+          byDay = new Map();
+          for (const s of await this.repo.list(patientId, trx)) addKnown(byDay, s);
+          known.set(patientId, byDay);
+        }
+        if ((byDay.get(`${r.analyte}|${r.date}`) ?? []).some((s) => isSameResult(s, record))) {
           duplicates += 1;
           continue;
         }
+        addKnown(byDay, record);
         toStore.push(record);
       }
       await this.repo.insertMany(trx, toStore, at);
