@@ -63,16 +63,14 @@ function patientIndex(bundle: Bundle): Map<string, FhirPatient> {
 /** `2026-03-01` stays a date; a time is kept as UTC ISO, the date as written (the clinic's day). */
 function effective(o: Observation): { date: string; takenAt: string | null } | string {
   const raw = o.effectiveDateTime ?? o.effectivePeriod?.start ?? o.effectiveInstant;
-  if (!raw) return 'effectiveDateTime: the time the sample was taken is missing';
+  if (!raw) return 'the time the sample was taken is missing';
   const m = /^(\d{4}-\d{2}-\d{2})(T.+)?$/.exec(raw);
-  if (!m?.[1])
-    return `effectiveDateTime: '${raw}' is not a full date (YYYY-MM-DD[Thh:mm:ss+zz:zz])`;
+  if (!m?.[1]) return `'${raw}' is not a full date (YYYY-MM-DD[Thh:mm:ss+zz:zz])`;
   const date = m[1];
-  if (Number.isNaN(Date.parse(`${date}T00:00:00Z`)))
-    return `effectiveDateTime: '${raw}' is not a real date`;
+  if (Number.isNaN(Date.parse(`${date}T00:00:00Z`))) return `'${raw}' is not a real date`;
   if (!m[2]) return { date, takenAt: null };
   const t = Date.parse(raw);
-  if (Number.isNaN(t)) return `effectiveDateTime: '${raw}' is not a valid time`;
+  if (Number.isNaN(t)) return `'${raw}' is not a valid time`;
   return { date, takenAt: new Date(t).toISOString() };
 }
 
@@ -113,7 +111,7 @@ function readObservation(
   const c = toCanonical(analyte, q.value, unit);
   if (!c.ok) return fail('valueQuantity', c.reason);
   const when = effective(o);
-  if (typeof when === 'string') return fail('', when);
+  if (typeof when === 'string') return fail('effectiveDateTime', when);
   let subjectIdentifiers = o.subject?.identifier ? identifiersOf([o.subject.identifier]) : [];
   const ref = o.subject?.reference;
   if (subjectIdentifiers.length === 0 && ref) {
