@@ -160,6 +160,32 @@ describe('lab results over HTTP', () => {
     ]);
   });
 
+  it('draws the band the clinic set (setting labBands) in the trend data', async () => {
+    const before = (await ctx.inject(`/api/patients/${id}/trends`)).json();
+    const phosphate = before.analytes.find((a: { analyte: string }) => a.analyte === 'phosphate');
+    // hemodialysis default: KDIGO 2017 toward the normal range 2.5-4.5 mg/dL
+    expect(phosphate.band).toMatchObject({ min: 2.5, max: 4.5 });
+    expect(phosphate.band.source).toMatch(/KDIGO 2017/);
+    const current = (await ctx.inject('/api/settings/labBands')).json().value;
+    const put = await ctx.inject({
+      method: 'PUT',
+      url: '/api/settings/labBands',
+      payload: {
+        ...current,
+        phosphate: { ...current.phosphate, onDialysis: { min: 3.5, max: 5.5 } },
+      },
+    });
+    expect(put.statusCode).toBe(200);
+    const after = (await ctx.inject(`/api/patients/${id}/trends`)).json();
+    expect(after.analytes.find((a: { analyte: string }) => a.analyte === 'phosphate').band).toEqual(
+      {
+        min: 3.5,
+        max: 5.5,
+        source: 'set by the clinic',
+      },
+    );
+  });
+
   it('refuses what is not a Bundle as a whole, and keeps identifiers unique', async () => {
     const res = await ctx.inject({
       method: 'POST',
