@@ -27,6 +27,9 @@ import {
 const ARTIFACTS = fileURLToPath(new URL('../../test-artifacts/', import.meta.url));
 const hasChromium = existsSync(CHROMIUM);
 const MISSING = `${CHROMIUM} missing (apt-get install chromium)`;
+const SAMPLE_BUNDLE = fileURLToPath(
+  new URL('../fixtures/fhir/lab-results-bundle.json', import.meta.url),
+);
 if (!hasChromium && !process.env.CI)
   process.stdout.write(`trend view browser test: ${MISSING}: skipped\n`);
 
@@ -169,6 +172,39 @@ describe('trend view on the patient record in Chromium', () => {
       await page.waitForSelector('#lab-status.error', { timeout: 10_000 });
       expect(await page.locator('#lab-status').textContent()).toMatch(/outside 1-10 mmol\/L/);
       expect(consoleErrors.filter((e) => !/status of 400/.test(e))).toEqual([]);
+    },
+    60_000,
+  );
+  it.skipIf(!hasChromium && !process.env.CI)(
+    'sets the record-system identifier and imports the sample FHIR Bundle on the page',
+    async () => {
+      expect(hasChromium, MISSING).toBe(true);
+      await page.fill('#id-system', 'https://clinic.example.org/mrn');
+      await page.fill('#id-value', 'DEMO-4471');
+      await page.click('#identifier-form button[type="submit"]');
+      await page.waitForSelector('#identifier-status.ok', { timeout: 10_000 });
+      expect(await page.locator('#identifier-text').textContent()).toMatch(/DEMO-4471/);
+      await page.setInputFiles('#fhir-file', SAMPLE_BUNDLE);
+      await page.click('#fhir-import-form button[type="submit"]');
+      await page.waitForFunction(
+        () => /imported/.test(document.getElementById('fhir-import-status')?.textContent ?? ''),
+        undefined,
+        { timeout: 10_000 },
+      );
+      // the sample Bundle: 8 results stored, entry 11 repeats entry 1, entries 8, 9, 10, 13 refused
+      expect(await page.locator('#fhir-import-status').textContent()).toBe(
+        '8 imported, 1 already stored, 4 refused.',
+      );
+      expect(await page.locator('#fhir-rejected li').count()).toBe(4);
+      await page.waitForFunction(
+        () => document.querySelectorAll('table[data-analyte="phosphate"] tbody tr').length === 7,
+        undefined,
+        { timeout: 10_000 },
+      );
+      expect(await page.locator('table[data-analyte="pth"] tbody tr').count()).toBe(1);
+      await page.screenshot({ path: `${ARTIFACTS}trends-02-imported.png`, fullPage: true });
+      const violations = await runAxe(page);
+      expect(violations, axeReport(violations)).toEqual([]);
     },
     60_000,
   );

@@ -6,6 +6,7 @@ export const endpoints = {
   patientPlans: (id: string | number) => `/api/patients/${id}/plans`,
   patientLabs: (id: string | number) => `/api/patients/${id}/labs`,
   patientTrends: (id: string | number) => `/api/patients/${id}/trends`,
+  labsImport: '/api/labs/import',
   plan: (id: string | number) => `/api/plans/${id}`,
   planSummary: (id: string | number, version?: number) =>
     `/api/plans/${id}/summary${version ? `?version=${version}` : ''}`,

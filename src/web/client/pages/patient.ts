@@ -306,6 +306,48 @@ byId<HTMLFormElement>('identifier-form').addEventListener('submit', (e) => {
   );
 });
 
+byId<HTMLFormElement>('fhir-import-form').addEventListener('submit', (e) => {
+  e.preventDefault();
+  const file = byId<HTMLInputElement>('fhir-file').files?.[0];
+  if (!file) {
+    say('fhir-import-status', 'Choose a FHIR Bundle file (JSON) first.', 'error');
+    return;
+  }
+  say('fhir-import-status', 'Importing…');
+  fill(byId('fhir-rejected'));
+  file
+    .text()
+    .then((text) => {
+      try {
+        return JSON.parse(text) as unknown;
+      } catch {
+        throw new Error(`${file.name} is not JSON`);
+      }
+    })
+    .then((bundle) =>
+      api<{
+        imported: number;
+        duplicates: number;
+        rejected: Array<{ entry: number; reason: string }>;
+      }>('POST', endpoints.labsImport, bundle),
+    )
+    .then(async (r) => {
+      say(
+        'fhir-import-status',
+        `${r.imported} imported, ${r.duplicates} already stored, ${r.rejected.length} refused.`,
+        r.rejected.length > 0 ? 'error' : 'ok',
+      );
+      fill(
+        byId('fhir-rejected'),
+        r.rejected.map((x) => h('li', {}, x.reason)),
+      );
+      patient = await api<Patient>('GET', endpoints.patient(id));
+      renderAll(patient);
+      await loadTrends();
+    })
+    .catch((err: unknown) => say('fhir-import-status', errorText(err), 'error'));
+});
+
 async function loadTrends(): Promise<void> {
   try {
     fill(byId('trends'), renderTrends(await api<Trends>('GET', endpoints.patientTrends(id))));
