@@ -1,48 +1,14 @@
 import { z } from 'zod';
 import { binderPrescriptionSchema, type BinderPrescription } from '../binders/binder.js';
-import {
-  PLAUSIBLE_MG_PER_DL,
-  convertLab,
-  toMgPerDl,
-  type LabAnalyte,
-  type LabUnit,
-} from './labs.js';
+import { labResultInputSchema, type LabRecord, type LabSource } from './lab-results.js';
+import { convertLab } from './labs.js';
+
+export { labResultInputSchema, type LabResultInput } from './lab-results.js';
 
 export const CKD_STAGES = ['3a', '3b', '4', '5'] as const;
 export type CkdStage = (typeof CKD_STAGES)[number];
 export const DIALYSIS_MODALITIES = ['none', 'hemodialysis', 'peritoneal-dialysis'] as const;
 export type Dialysis = (typeof DIALYSIS_MODALITIES)[number];
-
-const isoDate = z
-  .string()
-  .regex(/^\d{4}-\d{2}-\d{2}$/, 'date must be YYYY-MM-DD')
-  .refine(
-    (s) =>
-      !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) &&
-      new Date(`${s}T00:00:00Z`).toISOString().startsWith(s),
-    'date is not a real calendar date',
-  );
-
-export const labResultInputSchema = z
-  .object({
-    analyte: z.enum(['phosphate', 'calcium']),
-    value: z.number({ error: 'value must be a number' }).positive('value must be greater than 0'),
-    unit: z.enum(['mg/dL', 'mmol/L']),
-    date: isoDate,
-  })
-  .strict()
-  .superRefine((lab, ctx) => {
-    const mg = toMgPerDl(lab.analyte, lab.value, lab.unit);
-    const range = PLAUSIBLE_MG_PER_DL[lab.analyte];
-    if (mg < range.min || mg > range.max) {
-      ctx.addIssue({
-        code: 'custom',
-        path: ['value'],
-        message: `${lab.analyte} ${lab.value} ${lab.unit} is outside ${range.min}-${range.max} mg/dL: check the value and its unit`,
-      });
-    }
-  });
-export type LabResultInput = z.infer<typeof labResultInputSchema>;
 
 const rangeOverride = z
   .object({
@@ -74,6 +40,18 @@ const languageTag = z
     "language must be a BCP-47 tag such as 'es' or 'pt-BR'",
   );
 
+/**
+ * The identifier the clinic's record system knows the patient by (a FHIR Identifier: the
+ * system URI the clinic chose, and the value); FHIR results are matched to patients by it.
+ */
+export const identifierSchema = z
+  .object({
+    system: z.string().trim().min(1).max(300).nullable().default(null),
+    value: z.string().trim().min(1, 'identifier value is required').max(100),
+  })
+  .strict();
+export type PatientIdentifier = z.infer<typeof identifierSchema>;
+
 const patientFields = {
   label: z.string().trim().min(1, 'label (clinic label or pseudonym) is required').max(80),
   name: z.string().trim().min(1).max(200).nullable().default(null),
@@ -88,6 +66,7 @@ const patientFields = {
   labs: z.array(labResultInputSchema).max(200).default([]),
   binder: binderPrescriptionSchema.nullable().default(null),
   targetOverrides: targetOverridesSchema.default({}),
+  identifier: identifierSchema.nullable().default(null),
 };
 
 /** Dialysis means stage 5D: a stage 3a-4 record on dialysis is a contradiction. */
@@ -118,28 +97,46 @@ export interface Patient {
   ckdStage: CkdStage;
   dialysis: Dialysis;
   diabetes: boolean;
+  /** Results newest first (stored as rows in `lab_result`). */
   labs: LabResult[];
   binder: BinderPrescription | null;
   targetOverrides: TargetOverrides;
+  identifier: PatientIdentifier | null;
   isDemo: boolean;
   createdAt: string;
   updatedAt: string;
 }
 
+/** A result as the record shows it: as entered, canonical, and phosphate/calcium in both units. */
 export interface LabResult {
-  analyte: LabAnalyte;
+  analyte: LabRecord['analyte'];
   value: number;
-  unit: LabUnit;
+  unit: string;
   date: string;
-  mgPerDl: number;
-  mmolPerL: number;
+  canonicalValue: number;
+  canonicalUnit: string;
+  source: LabSource;
+  /** Phosphate and calcium only: both units the clinics use. */
+  mgPerDl?: number;
+  mmolPerL?: number;
 }
 
-/** Adds both units to entered lab results, newest first. */
-export function withConvertedLabs(labs: readonly LabResultInput[]): LabResult[] {
-  return [...labs]
-    .sort((a, b) => b.date.localeCompare(a.date))
-    .map((l) => ({ ...l, ...convertLab(l.analyte, l.value, l.unit) }));
+/** The record's view of stored results (already newest first). */
+export function toPatientLabs(records: readonly LabRecord[]): LabResult[] {
+  return records.map((r) => {
+    const base = {
+      analyte: r.analyte,
+      value: r.value,
+      unit: r.unit,
+      date: r.date,
+      canonicalValue: r.canonicalValue,
+      canonicalUnit: r.canonicalUnit,
+      source: r.source,
+    };
+    return r.analyte === 'phosphate' || r.analyte === 'calcium'
+      ? { ...base, ...convertLab(r.analyte, r.canonicalValue, 'mg/dL') }
+      : base;
+  });
 }
 
 export const patientUpdateSchema = z
@@ -152,9 +149,10 @@ export const patientUpdateSchema = z
     ckdStage: patientFields.ckdStage.optional(),
     dialysis: z.enum(DIALYSIS_MODALITIES).optional(),
     diabetes: z.boolean().optional(),
-    labs: z.array(labResultInputSchema).max(200).optional(),
+    // Results are added through /api/patients/:id/labs (rows of their own), not here.
     binder: binderPrescriptionSchema.nullable().optional(),
     targetOverrides: targetOverridesSchema.optional(),
+    identifier: identifierSchema.nullable().optional(),
   })
   .strict()
   .superRefine(checkStageModality);
@@ -170,8 +168,10 @@ export function patientToInput(p: Patient): PatientInput {
     ckdStage: p.ckdStage,
     dialysis: p.dialysis,
     diabetes: p.diabetes,
-    labs: p.labs.map(({ analyte, value, unit, date }) => ({ analyte, value, unit, date })),
+    // results live in rows of their own: a merged update does not write them again
+    labs: [],
     binder: p.binder,
     targetOverrides: p.targetOverrides,
+    identifier: p.identifier,
   };
 }

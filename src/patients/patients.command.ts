@@ -1,4 +1,6 @@
 import { readFileSync } from 'node:fs';
+import { cliActor } from '../audit/actors.js';
+import { recordAudit } from '../audit/audit.service.js';
 import { systemClock } from '../clock.js';
 import { AppError } from '../errors.js';
 import { UsageError, type Command } from '../cli/command.js';
@@ -53,7 +55,11 @@ export const patientShow: Command = {
       const out = [
         `${p.label}${p.name ? ` (${p.name})` : ''}${p.isDemo ? '  [demo data]' : ''}`,
         `CKD ${p.ckdStage}, ${p.dialysis === 'none' ? 'not on dialysis' : p.dialysis}, ${p.diabetes ? 'diabetes' : 'no diabetes'}, weight for targets ${p.weightKg} kg, language ${p.language}`,
-        ...p.labs.map((l) => `  ${l.date} ${l.analyte} ${l.mgPerDl} mg/dL = ${l.mmolPerL} mmol/L`),
+        `identifier: ${p.identifier ? `${p.identifier.system ?? '(no system)'} | ${p.identifier.value}` : 'not set'}`,
+        ...p.labs.map(
+          (l) =>
+            `  ${l.date} ${l.analyte} ${l.value} ${l.unit}${l.unit === l.canonicalUnit ? '' : ` = ${l.canonicalValue} ${l.canonicalUnit}`}`,
+        ),
         `targets per day (${p.targetsCaution}):`,
         ...Object.entries(p.targets).map(
           ([k, t]) =>
@@ -99,4 +105,56 @@ export const patientCreate: Command = {
   },
 };
 
-export const patientCommands: Command[] = [patientList, patientShow, patientCreate];
+export const patientSetIdentifier: Command = {
+  path: ['patient', 'set-identifier'],
+  usage: '<id> --value V [--system URI] | <id> --clear',
+  summary:
+    "set the identifier the clinic's record system uses for the patient (FHIR results are matched by it)",
+  minPositionals: 1,
+  options: { value: { type: 'string' }, system: { type: 'string' }, clear: { type: 'boolean' } },
+  async run(ctx) {
+    const id = Number(ctx.args.positionals[0]);
+    if (!Number.isInteger(id) || id <= 0)
+      throw new UsageError('<id> must be a positive whole number');
+    const { value, system, clear } = ctx.args.values;
+    if (!clear && typeof value !== 'string')
+      throw new UsageError('--value (or --clear) is required');
+    const identifier = clear
+      ? null
+      : { system: typeof system === 'string' ? system : null, value: String(value) };
+    try {
+      const db = await ctx.db();
+      const actor = cliActor();
+      const p = await new PatientService(db.kysely, systemClock).update(
+        id,
+        { identifier },
+        actor.username,
+      );
+      await recordAudit(db, {
+        ...actor,
+        action: 'patient.update',
+        entity: 'patient',
+        entityId: id,
+        patientId: id,
+      });
+      ctx.stdout.write(
+        p.identifier
+          ? `patient ${p.id} identifier set: ${p.identifier.system ?? '(no system)'} | ${p.identifier.value}\n`
+          : `patient ${p.id} identifier cleared\n`,
+      );
+    } catch (err) {
+      if (err instanceof AppError) {
+        ctx.stderr.write(`phosledger: ${err.message}\n`);
+        return 1;
+      }
+      throw err;
+    }
+  },
+};
+
+export const patientCommands: Command[] = [
+  patientList,
+  patientShow,
+  patientCreate,
+  patientSetIdentifier,
+];

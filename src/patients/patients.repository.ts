@@ -1,11 +1,12 @@
 import type { Kysely, Selectable, Transaction } from 'kysely';
 import type { DB } from '../db/schema.js';
 import type { PatientTable } from './patients.tables.js';
+import type { LabRecord } from './lab-results.js';
+import { LabRepository } from './labs.repository.js';
 import {
-  withConvertedLabs,
+  toPatientLabs,
   type CkdStage,
   type Dialysis,
-  type LabResultInput,
   type Patient,
   type PatientInput,
   type TargetOverrides,
@@ -24,7 +25,7 @@ function parseJson<T>(text: string | null, fallback: T): T {
 }
 
 /** The one row-to-domain mapper for patients. */
-export function rowToPatient(row: PatientRow): Patient {
+export function rowToPatient(row: PatientRow, labs: readonly LabRecord[]): Patient {
   return {
     id: row.id,
     label: row.label,
@@ -34,9 +35,13 @@ export function rowToPatient(row: PatientRow): Patient {
     ckdStage: row.ckd_stage as CkdStage,
     dialysis: row.dialysis as Dialysis,
     diabetes: row.diabetes === 1,
-    labs: withConvertedLabs(parseJson<LabResultInput[]>(row.labs_json, [])),
+    labs: toPatientLabs(labs),
     binder: parseJson<BinderPrescription | null>(row.binder_json, null),
     targetOverrides: parseJson<TargetOverrides>(row.target_overrides_json, {}),
+    identifier:
+      row.identifier_value === null
+        ? null
+        : { system: row.identifier_system, value: row.identifier_value },
     isDemo: row.is_demo === 1,
     createdAt: row.created_at,
     updatedAt: row.updated_at,
@@ -52,25 +57,30 @@ function toColumns(p: PatientInput) {
     ckd_stage: p.ckdStage,
     dialysis: p.dialysis,
     diabetes: p.diabetes ? 1 : 0,
-    labs_json: JSON.stringify(p.labs),
     binder_json: p.binder === null ? null : JSON.stringify(p.binder),
     target_overrides_json: JSON.stringify(p.targetOverrides),
+    identifier_system: p.identifier?.system ?? null,
+    identifier_value: p.identifier?.value ?? null,
   };
 }
 
 type Q = Kysely<DB> | Transaction<DB>;
 
 export class PatientRepository {
-  constructor(private readonly db: Kysely<DB>) {}
+  private readonly labs: LabRepository;
+  constructor(private readonly db: Kysely<DB>) {
+    this.labs = new LabRepository(db);
+  }
 
   async get(id: number, trx: Q = this.db): Promise<Patient | undefined> {
     const row = await trx.selectFrom('patient').selectAll().where('id', '=', id).executeTakeFirst();
-    return row ? rowToPatient(row) : undefined;
+    return row ? rowToPatient(row, await this.labs.list(id, trx)) : undefined;
   }
 
   async list(): Promise<Patient[]> {
     const rows = await this.db.selectFrom('patient').selectAll().orderBy('id').execute();
-    return rows.map(rowToPatient);
+    const labs = await this.labs.listFor(rows.map((r) => r.id));
+    return rows.map((r) => rowToPatient(r, labs.get(r.id) ?? []));
   }
 
   async count(trx: Q = this.db): Promise<number> {

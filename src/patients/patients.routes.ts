@@ -65,7 +65,7 @@ export const patientRoutes: FastifyPluginAsync<{ db: Db; clock: Clock }> = async
       },
     },
     async (req, reply) => {
-      const p = await service.create(req.body);
+      const p = await service.create(req.body, { by: req.user?.username ?? null });
       req.auditInfo = { entityId: p.id, patientId: p.id };
       return reply.status(201).send(toPatientJson(p));
     },
@@ -95,7 +95,8 @@ export const patientRoutes: FastifyPluginAsync<{ db: Db; clock: Clock }> = async
         body: patientUpdateSchema,
       },
     },
-    async (req) => toPatientJson(await service.update(req.params.id, req.body)),
+    async (req) =>
+      toPatientJson(await service.update(req.params.id, req.body, req.user?.username ?? null)),
   );
 
   api.get(

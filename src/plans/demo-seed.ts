@@ -61,6 +61,7 @@ export function demoPatient(today: Date): PatientInput {
       otherMedicines: ['levothyroxine'],
     },
     targetOverrides: {},
+    identifier: null,
   };
 }
 
@@ -216,6 +217,8 @@ export async function seedDemoData(
     await plans.create(patient.id, input, { isDemo: true });
   } catch (err) {
     // Leave nothing half-seeded: the plan rolled back in its transaction; remove the patient.
+    await ctx.db.kysely.deleteFrom('lab_result').where('patient_id', '=', patient.id).execute();
+    await ctx.db.kysely.deleteFrom('binder_change').where('patient_id', '=', patient.id).execute();
     await ctx.db.kysely.deleteFrom('patient').where('id', '=', patient.id).execute();
     throw err;
   }

@@ -13,6 +13,8 @@ import type { Db } from '../db/database.js';
 import { registerSecurity, type AuthOptions } from '../auth/security.js';
 import { foodRoutes } from '../foods/foods.routes.js';
 import { patientRoutes } from '../patients/patients.routes.js';
+import { labRoutes } from '../patients/labs.routes.js';
+import { planFhirRoutes } from '../plans/fhir-export.routes.js';
 import { planRoutes } from '../plans/plans.routes.js';
 import { diaryRoutes } from '../diary/diary.routes.js';
 import { additivesRoutes } from '../additives/additives.routes.js';
@@ -89,7 +91,9 @@ export async function buildApp(deps: AppDeps): Promise<App> {
   }));
   await app.register(foodRoutes, { prefix: '/api', db: deps.db });
   await app.register(patientRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
+  await app.register(labRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(planRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
+  await app.register(planFhirRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(diaryRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(additivesRoutes, { prefix: '/api' });
   await app.register(settingsRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });

@@ -17,6 +17,7 @@ import {
   clinicSchema,
   thresholdsSchema,
 } from '../plans/plan-settings.js';
+import { DEFAULT_LAB_BANDS, LAB_BAND_SOURCES, labBandsSchema } from '../patients/lab-bands.js';
 
 export interface SettingDefinition<T> {
   schema: z.ZodType<T>;
@@ -91,6 +92,16 @@ export const SETTINGS = {
       .join(' | '),
     description:
       'Cut-offs for binder pairing (minimum and high-load absorbable P per occasion), the high-ratio flag, swaps and contributors.',
+    editableBy: 'admin',
+  }),
+  labBands: defineSetting({
+    schema: labBandsSchema,
+    default: DEFAULT_LAB_BANDS,
+    source: Object.entries(LAB_BAND_SOURCES)
+      .map(([k, v]) => `${k}: ${v}`)
+      .join(' | '),
+    description:
+      'Reference or target band per lab result (canonical units: phosphate and calcium mg/dL, PTH pg/mL, albumin g/dL, potassium and bicarbonate mmol/L, 25-OH vitamin D ng/mL), off and on dialysis, drawn behind the trend charts.',
     editableBy: 'admin',
   }),
 } as const;

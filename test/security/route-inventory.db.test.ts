@@ -97,6 +97,7 @@ describe('route inventory: no non-public route answers without a session', () =>
       /^\/api\/patients/,
       /^\/api\/plans/,
       /^\/api\/diary/,
+      /^\/api\/labs/,
       /^\/api\/handouts?\/(?!languages$)/,
       /^\/plans\/:id\/handout/,
     ];

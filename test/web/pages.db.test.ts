@@ -124,8 +124,11 @@ describe('consult screens over HTTP', () => {
         )
       ).map((r) => r.body),
     ];
+    // XML namespace names (the chart library's table for createElementNS) name, never fetch
+    const NAMESPACE_NAMES =
+      /http:\/\/www\.w3\.org\/(1999\/xhtml|2000\/svg|1999\/xlink|XML\/1998\/namespace|2000\/xmlns\/)/g;
     for (const body of bodies) {
-      expect(body).not.toMatch(/https?:\/\//);
+      expect(body.replace(NAMESPACE_NAMES, '')).not.toMatch(/https?:\/\//);
       expect(body).not.toMatch(/@import|url\(\s*['"]?\/\//);
     }
   });

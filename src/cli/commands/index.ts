@@ -59,6 +59,14 @@ export const commandModules: readonly CommandModule[] = [
     firstWords: ['plan'],
     load: async () => (await import('../../handouts/handouts.command.js')).handoutCommands,
   },
+  {
+    firstWords: ['labs'],
+    load: async () => (await import('../../patients/labs.command.js')).labCommands,
+  },
+  {
+    firstWords: ['plan'],
+    load: async () => [(await import('../../plans/fhir-export.command.js')).planExportFhir],
+  },
 ];
 
 /** The commands whose first word is `word` (loads only their modules). */

@@ -4,6 +4,9 @@ export const endpoints = {
   patient: (id: string | number) => `/api/patients/${id}`,
   patientTargets: (id: string | number) => `/api/patients/${id}/targets`,
   patientPlans: (id: string | number) => `/api/patients/${id}/plans`,
+  patientLabs: (id: string | number) => `/api/patients/${id}/labs`,
+  patientTrends: (id: string | number) => `/api/patients/${id}/trends`,
+  labsImport: '/api/labs/import',
   plan: (id: string | number) => `/api/plans/${id}`,
   planSummary: (id: string | number, version?: number) =>
     `/api/plans/${id}/summary${version ? `?version=${version}` : ''}`,

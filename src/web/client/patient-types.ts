@@ -1,9 +1,12 @@
 /** The shapes the screens read from the patients and plans API. */
 export interface LabResult {
-  analyte: 'phosphate' | 'calcium';
+  analyte: string;
   value: number;
-  unit: 'mg/dL' | 'mmol/L';
+  unit: string;
   date: string;
+  canonicalValue: number;
+  canonicalUnit: string;
+  source: string;
   mgPerDl?: number;
   mmolPerL?: number;
 }
@@ -26,6 +29,7 @@ export interface Patient {
   labs: LabResult[];
   binder: BinderPrescription | null;
   targetOverrides?: Record<string, unknown>;
+  identifier?: { system: string | null; value: string } | null;
   isDemo?: boolean;
 }
 export interface Target {

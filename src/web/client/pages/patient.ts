@@ -13,6 +13,9 @@ import {
   type Targets,
 } from '../patient-types.js';
 import { newDay, toPlanInput } from '../plan-draft.js';
+import { ANALYTE_DEFINITIONS, ANALYTES } from '../../../patients/analytes.js';
+import type { Trends } from '../../../patients/trends.js';
+import { renderTrends } from '../trend-charts.js';
 
 initChrome();
 const id = pageParams().id ?? '';
@@ -74,15 +77,26 @@ function labText(l: LabResult): string {
   const conv =
     l.unit === 'mg/dL' && l.mmolPerL !== undefined
       ? ` (${num(l.mmolPerL, 2)} mmol/L)`
-      : l.unit === 'mmol/L' && l.mgPerDl !== undefined
-        ? ` (${num(l.mgPerDl, 1)} mg/dL)`
+      : l.unit !== l.canonicalUnit
+        ? ` (${num(l.canonicalValue, 2)} ${l.canonicalUnit})`
         : '';
   return `${num(l.value, 2)} ${l.unit}${conv}`;
+}
+
+function analyteName(a: string): string {
+  return (ANALYTE_DEFINITIONS as Record<string, { label: string } | undefined>)[a]?.label ?? a;
 }
 
 function renderLabs(p: Patient): void {
   fill(
     byId('labs'),
+    p.identifier
+      ? h(
+          'p',
+          { class: 'small', id: 'identifier-text' },
+          `Record-system identifier: ${p.identifier.value}${p.identifier.system ? ` (${p.identifier.system})` : ''}`,
+        )
+      : h('p', { class: 'small muted', id: 'identifier-text' }, 'No record-system identifier set.'),
     p.labs.length === 0
       ? h('p', { class: 'muted' }, 'No results recorded.')
       : h(
@@ -96,23 +110,28 @@ function renderLabs(p: Patient): void {
           h(
             'tbody',
             {},
-            p.labs.map((l) =>
-              h(
-                'tr',
-                {},
-                h('td', { class: 'num' }, l.date),
-                h('td', {}, l.analyte === 'phosphate' ? 'Serum phosphate' : 'Serum calcium'),
-                h('td', { class: 'num' }, labText(l)),
+            p.labs
+              .slice(0, 8)
+              .map((l) =>
+                h(
+                  'tr',
+                  {},
+                  h('td', { class: 'num' }, l.date),
+                  h('td', {}, analyteName(l.analyte)),
+                  h('td', { class: 'num' }, labText(l)),
+                ),
               ),
-            ),
           ),
         ),
     h(
       'p',
       { class: 'source' },
-      'Converted with factors from IUPAC standard atomic weights (P 30.974, Ca 40.078 g/mol).',
+      'Converted with UCUM; mass to amount with IUPAC standard atomic weights (P 30.974, Ca 40.078 g/mol) and stated molar masses (PTH 1 pg/mL = 0.106 pmol/L). Every result is in the trend view below.',
     ),
   );
+  const idForm = p.identifier;
+  byId<HTMLInputElement>('id-system').value = idForm?.system ?? '';
+  byId<HTMLInputElement>('id-value').value = idForm?.value ?? '';
 }
 
 function renderBinder(p: Patient): void {
@@ -211,6 +230,7 @@ async function save(
     renderAll(patient);
     say(statusId, done, 'ok');
     void loadTargets();
+    void loadTrends();
   } catch (err) {
     say(statusId, errorText(err), 'error');
   }
@@ -234,6 +254,21 @@ function renderAll(p: Patient): void {
   renderBinder(p);
 }
 
+function fillUnits(): void {
+  const analyte = byId<HTMLSelectElement>('lab-kind').value as (typeof ANALYTES)[number];
+  const units = Object.keys(ANALYTE_DEFINITIONS[analyte]?.units ?? {}).filter((u) => u !== 'ug/L');
+  fill(
+    byId('lab-unit'),
+    units.map((u) => h('option', { value: u }, u)),
+  );
+}
+fill(
+  byId('lab-kind'),
+  ANALYTES.map((a) => h('option', { value: a }, ANALYTE_DEFINITIONS[a].label)),
+);
+fillUnits();
+byId('lab-kind').addEventListener('change', fillUnits);
+
 byId<HTMLFormElement>('lab-form').addEventListener('submit', (e) => {
   e.preventDefault();
   if (!patient) return;
@@ -249,17 +284,80 @@ byId<HTMLFormElement>('lab-form').addEventListener('submit', (e) => {
     unit: byId<HTMLSelectElement>('lab-unit').value,
     date,
   };
-  const labs = [
-    ...patient.labs.map(({ analyte, value: v, unit, date: d }) => ({
-      analyte,
-      value: v,
-      unit,
-      date: d,
-    })),
-    entered,
-  ];
-  void save({ labs }, 'lab-status', 'Result added.');
+  say('lab-status', 'Saving…');
+  api('POST', endpoints.patientLabs(id), entered)
+    .then(async () => {
+      patient = await api<Patient>('GET', endpoints.patient(id));
+      renderAll(patient);
+      say('lab-status', 'Result added.', 'ok');
+      await loadTrends();
+    })
+    .catch((err: unknown) => say('lab-status', errorText(err), 'error'));
 });
+
+byId<HTMLFormElement>('identifier-form').addEventListener('submit', (e) => {
+  e.preventDefault();
+  const value = byId<HTMLInputElement>('id-value').value.trim();
+  const system = byId<HTMLInputElement>('id-system').value.trim();
+  void save(
+    { identifier: value ? { system: system || null, value } : null },
+    'identifier-status',
+    value ? 'Identifier saved.' : 'Identifier cleared.',
+  );
+});
+
+byId<HTMLFormElement>('fhir-import-form').addEventListener('submit', (e) => {
+  e.preventDefault();
+  const file = byId<HTMLInputElement>('fhir-file').files?.[0];
+  if (!file) {
+    say('fhir-import-status', 'Choose a FHIR Bundle file (JSON) first.', 'error');
+    return;
+  }
+  say('fhir-import-status', 'Importing…');
+  fill(byId('fhir-rejected'));
+  file
+    .text()
+    .then((text) => {
+      try {
+        return JSON.parse(text) as unknown;
+      } catch {
+        throw new Error(`${file.name} is not JSON`);
+      }
+    })
+    .then((bundle) =>
+      api<{
+        imported: number;
+        duplicates: number;
+        rejected: Array<{ entry: number; reason: string }>;
+      }>('POST', endpoints.labsImport, bundle),
+    )
+    .then(async (r) => {
+      say(
+        'fhir-import-status',
+        `${r.imported} imported, ${r.duplicates} already stored, ${r.rejected.length} refused.`,
+        r.rejected.length > 0 ? 'error' : 'ok',
+      );
+      fill(
+        byId('fhir-rejected'),
+        r.rejected.map((x) => h('li', {}, x.reason)),
+      );
+      patient = await api<Patient>('GET', endpoints.patient(id));
+      renderAll(patient);
+      await loadTrends();
+    })
+    .catch((err: unknown) => say('fhir-import-status', errorText(err), 'error'));
+});
+
+async function loadTrends(): Promise<void> {
+  try {
+    fill(byId('trends'), renderTrends(await api<Trends>('GET', endpoints.patientTrends(id))));
+  } catch (err) {
+    fill(
+      byId('trends'),
+      h('p', { class: 'status error' }, `Trends unavailable: ${errorText(err)}`),
+    );
+  }
+}
 
 function overridesWith(key: string, value: { min: number | null; max: number | null } | null) {
   const current = { ...((patient?.targetOverrides ?? {}) as Record<string, unknown>) };
@@ -357,6 +455,6 @@ async function start(): Promise<void> {
     return;
   }
   renderAll(patient);
-  await Promise.all([loadTargets(), loadPlans()]);
+  await Promise.all([loadTargets(), loadPlans(), loadTrends()]);
 }
 void start();
