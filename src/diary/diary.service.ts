@@ -24,8 +24,10 @@ import {
   sharedFoods,
   type SharedCache,
 } from './shared-foods.js';
+import { parseQuantity, type Quantity } from './quantity.js';
 import {
   decodeDiaryBytes,
+  entryKey,
   readDiary,
   type DiaryEntryInput,
   type DiaryFormat,
@@ -85,6 +87,28 @@ breakfast - 1 bowl of oatmeal
 lunch: ham sandwich
 dinner: 150 g salmon, baked
 `;
+
+/**
+ * The reviewer's choices, by entry key ("12", "12.1"): a food id (as saved before amounts could
+ * be entered), or a food id with the amount the reviewer entered.
+ */
+export type EntryOverride = number | { foodId: number; quantity?: string };
+export type Overrides = Readonly<Record<string, EntryOverride>>;
+
+function overrideFood(o: EntryOverride | undefined): number | undefined {
+  return o === undefined ? undefined : typeof o === 'number' ? o : o.foodId;
+}
+
+/** The amounts the reviewer entered, parsed (each was checked when it was entered). */
+function enteredQuantities(overrides: Overrides): Map<string, Quantity> {
+  const out = new Map<string, Quantity>();
+  for (const [k, o] of Object.entries(overrides)) {
+    if (typeof o !== 'object' || !o.quantity) continue;
+    const q = parseQuantity(o.quantity);
+    if (q.ok) out.set(k, q.value);
+  }
+  return out;
+}
 
 /** Passes over the warm-up diary: enough for V8 to optimise the scorer (measured, no source). */
 const WARM_UP_PASSES = 3;
@@ -201,9 +225,9 @@ export class DiaryAuditService {
   /** Matches every entry: the dietitian's choice for the line first, then the matcher. */
   private async matchAll(
     entries: readonly DiaryEntryInput[],
-    overrides: Readonly<Record<string, number>>,
+    overrides: Overrides,
     tools: AuditTools,
-  ): Promise<Map<number, EntryMatchInput>> {
+  ): Promise<Map<string, EntryMatchInput>> {
     // One query for the clinic's remembered matches of every phrase in the diary.
     const remembered = await this.repo.lookupMemory(CLINIC_KEY, [
       ...new Set(entries.map((e) => memoryKey(e.foodText)).filter(Boolean)),
@@ -216,14 +240,15 @@ export class DiaryAuditService {
           ),
         ),
     });
-    const chosenIds = Object.values(overrides);
+    const chosenIds = Object.values(overrides).map((o) => overrideFood(o) as number);
     const chosen = chosenIds.length > 0 ? await tools.foodRepo.getFoods(chosenIds) : new Map();
-    const out = new Map<number, EntryMatchInput>();
+    const out = new Map<string, EntryMatchInput>();
     for (const e of entries) {
-      const o = overrides[String(e.line)];
+      const key = entryKey(e);
+      const o = overrideFood(overrides[key]);
       const food = o === undefined ? undefined : chosen.get(o);
       if (food) {
-        out.set(e.line, {
+        out.set(key, {
           food,
           method: 'confirmed',
           confidence: 1,
@@ -232,7 +257,7 @@ export class DiaryAuditService {
         });
         continue;
       }
-      out.set(e.line, await matcher.match({ foodText: e.foodText, barcode: e.barcode }));
+      out.set(key, await matcher.match({ foodText: e.foodText, barcode: e.barcode }));
     }
     return out;
   }
@@ -307,7 +332,7 @@ export class DiaryAuditService {
 
   private async compute(
     entries: readonly DiaryEntryInput[],
-    overrides: Readonly<Record<string, number>>,
+    overrides: Overrides,
     patientId: number | null,
     skipped: readonly DiaryIssue[],
     notes: readonly DiaryIssue[],
@@ -322,6 +347,7 @@ export class DiaryAuditService {
     const built = buildDiaryReport({
       entries,
       matches,
+      quantities: enteredQuantities(overrides),
       settings,
       targets,
       targetsSource: patientId === null ? 'none' : 'patient',
@@ -408,7 +434,7 @@ export class DiaryAuditService {
     id: number,
     line: number,
     foodId: number,
-    opts: { remember: boolean; userId: number | null },
+    opts: { remember: boolean; userId: number | null; part?: number; quantity?: string },
   ): Promise<SavedAudit> {
     const row = await this.repo.get(id);
     if (!row) throw new NotFoundError('diary audit', id);
@@ -417,19 +443,36 @@ export class DiaryAuditService {
       skipped: DiaryIssue[];
       notes: DiaryIssue[];
     };
-    const entry = stored.entries.find((e) => e.line === line);
+    const part = opts.part ?? 0;
+    const entry = stored.entries.find((e) => e.line === line && (e.part ?? 0) === part);
     if (!entry) {
       throw new AppError(
         'PHL_DIARY_LINE_NOT_FOUND',
         404,
-        `diary audit ${id} has no entry on line ${line}`,
+        part > 0
+          ? `diary audit ${id} has no food ${part + 1} on line ${line}`
+          : `diary audit ${id} has no entry on line ${line}`,
       );
     }
     const food = await this.foodRepo.getFood(foodId);
     if (!food) throw new NotFoundError('food', foodId);
-    const overrides = {
-      ...(JSON.parse(row.overridesJson) as Record<string, number>),
-      [String(line)]: foodId,
+    const previous = (JSON.parse(row.overridesJson) as Overrides)[entryKey(entry)];
+    // The line's own amount is kept when the food changes; an amount the reviewer entered before
+    // stays unless a new one is given.
+    const keptQuantity =
+      opts.quantity ?? (typeof previous === 'object' ? previous.quantity : undefined);
+    if (opts.quantity !== undefined) {
+      const q = parseQuantity(opts.quantity);
+      if (!q.ok) {
+        throw new BadRequestError(
+          'PHL_DIARY_QUANTITY',
+          `quantity '${opts.quantity.slice(0, 100)}' not understood: ${q.issues.join('; ')}`,
+        );
+      }
+    }
+    const overrides: Overrides = {
+      ...(JSON.parse(row.overridesJson) as Overrides),
+      [entryKey(entry)]: keptQuantity ? { foodId, quantity: keptQuantity } : foodId,
     };
     const report = await this.compute(
       stored.entries,
