@@ -211,6 +211,7 @@ export class DiaryAuditService {
       },
       findIdsByCode: (code) => foodRepo.findIdsByCode(code),
       getFoods: (ids) => foodRepo.getFoods(ids),
+      correctWords: (words) => foodService.correctWords(words),
     };
   }
 

@@ -18,7 +18,13 @@ import { profileFood, scaleProfile, type PhosphorusProfile } from '../phosphorus
 import { memoryKey } from './matcher.js';
 import type { Candidate, MatchMethod } from './matching.service.js';
 import { handfulToGrams } from './handful.js';
-import { defaultPortion, quantityToGrams, type GramsResult, type Quantity } from './quantity.js';
+import {
+  addedPortion,
+  defaultPortion,
+  quantityToGrams,
+  type GramsResult,
+  type Quantity,
+} from './quantity.js';
 import { entryKey, type DiaryEntryInput } from './reader.js';
 
 /** Where an entry's food came from, as the report shows it. */
@@ -195,13 +201,15 @@ function entryAmount(
     }
     return { grams: h.grams, review };
   }
-  const gramsKey = `${food.id}|${e.quantityUnreadable}|${e.quantityText ?? ''}|${e.foodText}`;
+  const gramsKey = `${food.id}|${e.quantityUnreadable}|${e.addedTo === true}|${e.quantityText ?? ''}|${e.foodText}`;
   let grams = cache.get(gramsKey);
   if (!grams || food !== m.food) {
     const entryWords = memoryKey(e.foodText).split(' ');
     grams = e.quantityUnreadable
       ? defaultPortion(food, `quantity '${e.quantityText ?? ''}' not understood`)
-      : quantityToGrams(e.quantity, food, entryWords);
+      : e.quantity === null && e.addedTo
+        ? addedPortion(food)
+        : quantityToGrams(e.quantity, food, entryWords);
     cache.set(gramsKey, grams);
   }
   return { grams, review };

@@ -905,6 +905,28 @@ function typicalGrams(
  * in the table, else its serving size, else 100 g. Always marked assumed.
  */
 export function defaultPortion(food: MeasuredFood, why: string): GramsResult {
+  return defaultPortionOf(food, why);
+}
+
+/**
+ * The default for a food written "with" another and no amount ("coffee with milk"): an
+ * addition, so the food's smallest household measure, else the usual default. Assumed.
+ */
+export function addedPortion(food: MeasuredFood): GramsResult {
+  const smallest = [...food.portions]
+    .filter((p) => p.grams > 0 && !/^grams?\b/i.test(p.description))
+    .sort((a, b) => gramsPerPortion(a) - gramsPerPortion(b))[0];
+  if (!smallest) return defaultPortionOf(food, "no quantity given for a food added to another");
+  const g = round1(gramsPerPortion(smallest));
+  return {
+    grams: g,
+    method: 'default-portion',
+    assumed: true,
+    note: `no quantity given for a food added to another; assumed its smallest measure, 1 ${smallest.description} (${g} g) from the food table`,
+  };
+}
+
+function defaultPortionOf(food: MeasuredFood, why: string): GramsResult {
   const first = usualItem(food) ?? food.portions[0];
   if (first) {
     const g = round1(gramsPerPortion(first));

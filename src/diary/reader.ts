@@ -4,7 +4,7 @@
  * Bad lines are reported with where and why; nothing here throws on user input.
  */
 import { parseQuantity, splitQuantity, type Quantity } from './quantity.js';
-import { splitFoods } from './split-foods.js';
+import { splitFoodParts } from './split-foods.js';
 
 /** One diary entry as read, before matching. */
 export interface DiaryEntryInput {
@@ -17,6 +17,8 @@ export interface DiaryEntryInput {
   part?: number;
   /** How many foods the line names, when more than one. */
   partsOnLine?: number;
+  /** Written "with" the food before it ("coffee with milk"): a small addition, not a serving. */
+  addedTo?: boolean;
   /** ISO date (yyyy-mm-dd) when the diary gave one, else null. */
   date: string | null;
   /** The day as the diary named it ("2024-03-05", "Tuesday", "Day 1"; "" when none). */
@@ -557,9 +559,9 @@ function entriesFromText(
   quantityCell: string,
   flags: string[],
 ): DiaryEntryInput[] {
-  const foods = splitFoods(foodCell);
+  const foods = splitFoodParts(foodCell);
   if (foods.length === 1) return [partEntry(base, foodCell, quantityCell, flags)];
-  return foods.map((food, part) => {
+  return foods.map(({ text: food, added }, part) => {
     const own = [
       ...flags,
       `food ${part + 1} of ${foods.length} on line ${base.line} ('${foodCell.trim().slice(0, 120)}')`,
@@ -571,6 +573,7 @@ function entriesFromText(
         ...base,
         part,
         partsOnLine: foods.length,
+        ...(added ? { addedTo: true } : {}),
         barcode: first ? base.barcode : null,
         ingredients: first ? base.ingredients : null,
       },

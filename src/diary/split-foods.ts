@@ -107,6 +107,14 @@ interface Cut {
   start: number;
   end: number;
   comma: boolean;
+  /** The connector means "with": the food after it is added to the one before. */
+  with?: boolean;
+}
+
+/** One food of a line: its text, and whether it was added "with" the food before it. */
+export interface FoodPart {
+  text: string;
+  added: boolean;
 }
 
 function isWordChar(ch: string | undefined): boolean {
@@ -138,7 +146,7 @@ function wordCuts(folded: string): Cut[] {
         at = folded.indexOf(` ${w} `, at + 1);
         continue;
       }
-      cuts.push({ start, end, comma: false });
+      cuts.push({ start, end, comma: false, with: WITH_WORDS.has(w) });
       at = folded.indexOf(` ${w} `, at + 1);
     }
   }
@@ -178,6 +186,11 @@ function startsWithAmount(part: string): boolean {
  * its connectors.
  */
 export function splitFoods(text: string): string[] {
+  return splitFoodParts(text).map((p) => p.text);
+}
+
+/** `splitFoods` with, for each food, whether it was added "with" the food before it. */
+export function splitFoodParts(text: string): FoodPart[] {
   const trimmed = text.trim();
   const folded = foldAligned(trimmed);
   const spans = protectedSpans(folded);
@@ -201,18 +214,20 @@ export function splitFoods(text: string): string[] {
     const withAmounts = pieces.filter((p) => startsWithAmount(p)).length;
     if (cuts.length > 0 || withAmounts >= 2) cuts.push(...commaCuts);
   }
-  if (cuts.length === 0) return [trimmed];
+  if (cuts.length === 0) return [{ text: trimmed, added: false }];
   cuts.sort((a, b) => a.start - b.start);
-  const parts: { text: string; folded: string }[] = [];
+  const parts: { text: string; folded: string; added: boolean }[] = [];
   let from = 0;
+  let added = false;
   for (const c of cuts) {
     if (c.start < from) continue;
-    parts.push({ text: trimmed.slice(from, c.start), folded: folded.slice(from, c.start) });
+    parts.push({ text: trimmed.slice(from, c.start), folded: folded.slice(from, c.start), added });
     from = c.end;
+    added = c.with === true;
   }
-  parts.push({ text: trimmed.slice(from), folded: folded.slice(from) });
+  parts.push({ text: trimmed.slice(from), folded: folded.slice(from), added });
   // A part that only describes the food before it goes back onto it ("chicken, roasted, 120 g").
-  const merged: { text: string; folded: string }[] = [];
+  const merged: { text: string; folded: string; added: boolean }[] = [];
   for (const p of parts) {
     const last = merged[merged.length - 1];
     if (last && describesOnly(p.folded)) {
@@ -220,8 +235,10 @@ export function splitFoods(text: string): string[] {
       last.folded = `${last.folded}, ${p.folded.trim()}`;
     } else merged.push({ ...p });
   }
-  const out = merged.map((p) => p.text.trim()).filter((t) => /[\p{L}]/u.test(t));
-  return out.length > 0 ? out : [trimmed];
+  const out = merged
+    .map((p) => ({ text: p.text.trim(), added: p.added }))
+    .filter((p) => /[\p{L}]/u.test(p.text));
+  return out.length > 0 ? out : [{ text: trimmed, added: false }];
 }
 
 function cutText(text: string, cuts: readonly Cut[]): string[] {

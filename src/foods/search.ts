@@ -6,12 +6,92 @@ export interface RankCandidate {
   kind: 'generic' | 'branded';
   /** Position in the FTS bm25 order (0 = best). */
   ftsOrder: number;
+  /** The table's alternate names as stored (a JSON array of strings), when known. */
+  altNames?: string;
+}
+
+/**
+ * Forms not eaten as they are (dried, powdered, a mix or concentrate, frozen): for a query that
+ * does not name the form, the ready-to-eat food comes first ("egg whole": not the dried egg).
+ */
+const NOT_READY =
+  /\b(dried|dry|powder|powdered|dehydrated|mix|concentrate|frozen|unprepared|condensed|evaporated|flour)\b/;
+
+/** Variants of a food (lower fat or sodium, imitation, spread) unless the query names them. */
+const VARIANT =
+  /^(low|lowfat|reduced|free|fat-free|nonfat|lite|light|diet|imitation|substitute|spread|product|food|sodium|unsalted|without|babyfood|infant|toddler)$/;
+
+function variantPenalty(words: readonly string[], name: string): number {
+  const have = nameWords(name).filter((n) => VARIANT.test(n));
+  return have.some((n) => !words.some((w) => n.startsWith(w))) ? 1 : 0;
+}
+
+function formPenalty(words: readonly string[], name: string): number {
+  const have = nameWords(name).filter((n) => NOT_READY.test(n));
+  if (have.length === 0) return 0;
+  return have.some((n) => !words.some((w) => n.startsWith(w))) ? 1 : 0;
+}
+
+/** Alternate names of a stored row, split into their common names' words (remembered). */
+const commonNameWords = new Map<string, readonly (readonly string[])[]>();
+
+function commonNames(altNames: string | undefined): readonly (readonly string[])[] {
+  if (!altNames || altNames === '[]') return [];
+  let out = commonNameWords.get(altNames);
+  if (out === undefined) {
+    let list: unknown;
+    try {
+      list = JSON.parse(altNames);
+    } catch {
+      list = [altNames];
+    }
+    const names = Array.isArray(list) ? list.filter((x): x is string => typeof x === 'string') : [];
+    out = names.flatMap((n) => n.split(/[,;]/)).map((n) => searchWords(n));
+    if (commonNameWords.size > 50_000) commonNameWords.clear();
+    commonNameWords.set(altNames, out);
+  }
+  return out;
+}
+
+/** The words are the start of one of the food's common names, in order ("hot dog"). */
+function commonNameMatch(words: readonly string[], c: RankCandidate): boolean {
+  return commonNames(c.altNames).some(
+    (n) => n.length >= words.length && words.every((w, i) => (n[i] as string).startsWith(w)),
+  );
+}
+
+/**
+ * The sort key of a candidate (lower first): name tier, with a common name of the table as
+ * good as a main name just after it; generic before branded; ready-to-eat before dried or
+ * powdered forms; the plain food before its variants (low fat, spread); shorter names first;
+ * bm25 order.
+ */
+export function rankKey(words: readonly string[], c: RankCandidate): number[] {
+  const tier = tierOfWords(words, c);
+  const effective = tier > 0 && commonNameMatch(words, c) ? 0.5 : tier;
+  return [
+    effective,
+    c.kind === 'generic' ? 0 : 1,
+    formPenalty(words, c.name),
+    variantPenalty(words, c.name),
+    c.name.length,
+    c.ftsOrder,
+  ];
+}
+
+export function compareKeys(a: readonly number[], b: readonly number[]): number {
+  for (let i = 0; i < a.length; i++) {
+    const d = (a[i] as number) - (b[i] as number);
+    if (d !== 0) return d;
+  }
+  return 0;
 }
 
 /**
  * Ranks FTS candidates for type-ahead: a main name that starts with the first word comes first,
- * then a main name with every word at a word start, then matches on alternate names only;
- * generic before branded; shorter names before longer; bm25 order breaks ties.
+ * then a common name of the table that starts with the words, then a main name with every word
+ * at a word start, then matches on alternate names only; generic before branded; ready-to-eat
+ * before dried or powdered forms; shorter names before longer; bm25 order breaks ties.
  */
 export function rankCandidates<T extends RankCandidate>(
   query: string,
@@ -25,13 +105,8 @@ export function rankByWords<T extends RankCandidate>(
   words: readonly string[],
   candidates: readonly T[],
 ): T[] {
-  const scored = candidates.map((c) => {
-    const tier = tierOfWords(words, c);
-    return { c, tier, kind: c.kind === 'generic' ? 0 : 1, len: c.name.length };
-  });
-  scored.sort(
-    (a, b) => a.tier - b.tier || a.kind - b.kind || a.len - b.len || a.c.ftsOrder - b.c.ftsOrder,
-  );
+  const scored = candidates.map((c) => ({ c, key: rankKey(words, c) }));
+  scored.sort((a, b) => compareKeys(a.key, b.key));
   return scored.map((s) => s.c);
 }
 

@@ -117,7 +117,7 @@ describe('parseQuantity: units', () => {
     expect(v.measureText).toBe('large');
   });
 
-  it.each(['', 'handful', 'some', 'lots!!', '0 g', '-', '2 cups and a bit more than that'])(
+  it.each(['', 'some', 'lots!!', '0 g', '-', '-100 g', '2 cups and a bit more than that'])(
     'flags %j as not understood',
     (text) => {
       const r = parseQuantity(text);
