@@ -32,6 +32,9 @@ function hasAllWords(words: readonly string[], row: { name: string; alt_names: s
   return words.every((w) => all.some((h) => h.startsWith(w)));
 }
 
+/** How much plainer a food found through a synonym ranks (in plainness.ts penalty points). */
+const SYNONYM_PREFERENCE = 2;
+
 /** The vocabulary per database and state of the food tables (built once, on first need). */
 const spellingByDb = new WeakMap<object, { stamp: string; index: Promise<SpellingIndex> }>();
 
@@ -94,9 +97,11 @@ export class FoodService {
     const lists = [words, ...synonymQueries(words)];
     if (lists.length === 1) return this.ranked(words, query);
     const best = new Map<number, { c: RankCandidate; key: number[] }>();
-    for (const ws of lists) {
+    for (const [i, ws] of lists.entries()) {
       for (const c of await this.ranked(ws, query)) {
         const key = rankKey(ws, c);
+        // A synonym says what the words mean: its foods come first among equally named ones.
+        if (i > 0) key[2] = (key[2] as number) - SYNONYM_PREFERENCE;
         const had = best.get(c.id);
         if (!had || compareKeys(key, had.key) < 0) best.set(c.id, { c, key });
       }

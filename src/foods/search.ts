@@ -1,3 +1,4 @@
+import { afterCategory, plainnessPenalty } from './plainness.js';
 import { nameWords, searchWords } from './text.js';
 
 export interface RankCandidate {
@@ -8,28 +9,6 @@ export interface RankCandidate {
   ftsOrder: number;
   /** The table's alternate names as stored (a JSON array of strings), when known. */
   altNames?: string;
-}
-
-/**
- * Forms not eaten as they are (dried, powdered, a mix or concentrate, frozen): for a query that
- * does not name the form, the ready-to-eat food comes first ("egg whole": not the dried egg).
- */
-const NOT_READY =
-  /\b(dried|dry|powder|powdered|dehydrated|mix|concentrate|frozen|unprepared|condensed|evaporated|flour)\b/;
-
-/** Variants of a food (lower fat or sodium, imitation, spread) unless the query names them. */
-const VARIANT =
-  /^(low|lowfat|reduced|free|fat-free|nonfat|lite|light|diet|imitation|substitute|spread|product|food|sodium|unsalted|without|babyfood|infant|toddler)$/;
-
-function variantPenalty(words: readonly string[], name: string): number {
-  const have = nameWords(name).filter((n) => VARIANT.test(n));
-  return have.some((n) => !words.some((w) => n.startsWith(w))) ? 1 : 0;
-}
-
-function formPenalty(words: readonly string[], name: string): number {
-  const have = nameWords(name).filter((n) => NOT_READY.test(n));
-  if (have.length === 0) return 0;
-  return have.some((n) => !words.some((w) => n.startsWith(w))) ? 1 : 0;
 }
 
 /** Alternate names of a stored row, split into their common names' words (remembered). */
@@ -62,18 +41,23 @@ function commonNameMatch(words: readonly string[], c: RankCandidate): boolean {
 
 /**
  * The sort key of a candidate (lower first): name tier, with a common name of the table as
- * good as a main name just after it; generic before branded; ready-to-eat before dried or
- * powdered forms; the plain food before its variants (low fat, spread); shorter names first;
- * bm25 order.
+ * good as a main name just after it (and a name after its table category, "Beverages, coffee",
+ * as a main name); generic before branded; the plain everyday food first (plainness.ts: whole
+ * words, ready-to-eat, no variant, the usual state); shorter names first; bm25 order.
  */
 export function rankKey(words: readonly string[], c: RankCandidate): number[] {
   const tier = tierOfWords(words, c);
-  const effective = tier > 0 && commonNameMatch(words, c) ? 0.5 : tier;
+  let effective: number = tier;
+  if (tier > 0) {
+    // "Beverages, coffee, brewed": the food after the table's category words heads the name.
+    const rest = afterCategory(c.name);
+    if (rest !== null && tierOfWords(words, { name: rest }) === 0) effective = 0;
+    else if (commonNameMatch(words, c)) effective = 0.5;
+  }
   return [
     effective,
     c.kind === 'generic' ? 0 : 1,
-    formPenalty(words, c.name),
-    variantPenalty(words, c.name),
+    plainnessPenalty(words, c.name),
     c.name.length,
     c.ftsOrder,
   ];
