@@ -32,7 +32,10 @@ export interface QueryScore {
 }
 
 /** Searches each query (limit 12, as the type-ahead shows) and counts expected foods in the top 3. */
-export async function scoreEverydayQueries(db: Db, queries = everydayQueries()): Promise<QueryScore> {
+export async function scoreEverydayQueries(
+  db: Db,
+  queries = everydayQueries(),
+): Promise<QueryScore> {
   const service = new FoodService(new FoodRepository(db.kysely));
   let inTop3 = 0;
   const misses: QueryScore['misses'] = [];
