@@ -47,28 +47,63 @@ function wholeWordMisses(words: readonly string[], have: readonly string[]): num
   return misses;
 }
 
+/** What the penalty reads from a name alone, worked out once per name (names come back). */
+interface NameFacts {
+  have: readonly string[];
+  notReady: readonly string[];
+  variants: readonly string[];
+  prototype: boolean;
+  special: boolean;
+  caps: readonly string[];
+  raw: boolean;
+  cooked: boolean;
+}
+const FACTS_MAX = 50_000;
+const factsByName = new Map<string, NameFacts>();
+
+function nameFacts(name: string): NameFacts {
+  let f = factsByName.get(name);
+  if (f === undefined) {
+    const have = nameWords(name);
+    // Words in brackets only explain ("(fat free or skim)"): they make no variant.
+    const outside = name.includes('(') ? nameWords(name.replace(/\([^)]*\)/g, ' ')) : have;
+    const lower = name.toLowerCase();
+    f = {
+      have,
+      notReady: [...new Set(outside.filter((n) => NOT_READY.has(n)))],
+      variants: outside.filter((n) => VARIANT.has(n)),
+      prototype: PROTOTYPE.test(lower),
+      special: SPECIAL_SOURCE.test(name),
+      caps: (name.match(/\b[A-Z]{3,}[A-Z']*\b/g) ?? []).map((c) =>
+        c.toLowerCase().replace(/'s$/, ''),
+      ),
+      raw: have.includes('raw'),
+      cooked: COOKED.test(lower),
+    };
+    if (factsByName.size >= FACTS_MAX) factsByName.clear();
+    factsByName.set(name, f);
+  }
+  return f;
+}
+
 /** The plainness penalty of a name for a query's words (0 = the plain everyday food). */
 export function plainnessPenalty(words: readonly string[], name: string): number {
-  const have = nameWords(name);
-  // Words in brackets only explain ("(fat free or skim)"): they make no variant.
-  const outside = nameWords(name.replace(/\([^)]*\)/g, ' '));
+  const f = nameFacts(name);
   const named = (n: string) => words.some((w) => n.startsWith(w));
-  let p = 3 * wholeWordMisses(words, have);
+  let p = 3 * wholeWordMisses(words, f.have);
   // Each form word counts: "frozen, unprepared" is further from the plate than "frozen".
-  p += 2 * new Set(outside.filter((n) => NOT_READY.has(n) && !named(n))).size;
-  if (outside.some((n) => VARIANT.has(n) && !named(n))) p += 2;
-  const lower = name.toLowerCase();
-  if (PROTOTYPE.test(lower)) p -= 1;
-  if (SPECIAL_SOURCE.test(name)) p += 3;
+  for (const n of f.notReady) if (!named(n)) p += 2;
+  if (f.variants.some((n) => !named(n))) p += 2;
+  if (f.prototype) p -= 1;
+  if (f.special) p += 3;
   // Brand-like words in capitals ("SPAGHETTIOS") unless the query names them.
-  const caps = name.match(/\b[A-Z]{3,}[A-Z']*\b/g) ?? [];
-  if (caps.some((c) => !named(c.toLowerCase().replace(/'s$/, '')))) p += 2;
+  if (f.caps.some((c) => !named(c))) p += 2;
   const head = words[0] ?? '';
-  const cookedHead = [...USUALLY_COOKED].some((h) => head === h || head === `${h}s`);
+  const cookedHead = USUALLY_COOKED.has(head) || USUALLY_COOKED.has(head.replace(/e?s$/, ''));
   if (cookedHead) {
-    if (have.includes('raw') && !named('raw')) p += 2;
-    if (COOKED.test(lower)) p -= 1;
-  } else if (have.includes('raw')) p -= 1;
+    if (f.raw && !named('raw')) p += 2;
+    if (f.cooked) p -= 1;
+  } else if (f.raw) p -= 1;
   return p;
 }
 
@@ -93,10 +128,20 @@ const CATEGORY_HEADS = new Set([
 
 /** The name after its category words ("Beverages, coffee, brewed" -> "coffee, brewed"), or null. */
 export function afterCategory(name: string): string | null {
-  const segments = name.split(',').map((s) => s.trim().toLowerCase());
-  for (const n of [2, 1]) {
-    if (segments.length > n && CATEGORY_HEADS.has(segments.slice(0, n).join(', ')))
-      return segments.slice(n).join(', ');
+  if (!name.includes(',')) return null;
+  let hit = categoryRest.get(name);
+  if (hit === undefined) {
+    hit = null;
+    const segments = name.split(',').map((s) => s.trim().toLowerCase());
+    for (const n of [2, 1]) {
+      if (segments.length > n && CATEGORY_HEADS.has(segments.slice(0, n).join(', '))) {
+        hit = segments.slice(n).join(', ');
+        break;
+      }
+    }
+    if (categoryRest.size >= FACTS_MAX) categoryRest.clear();
+    categoryRest.set(name, hit);
   }
-  return null;
+  return hit;
 }
+const categoryRest = new Map<string, string | null>();
