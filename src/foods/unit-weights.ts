@@ -35,7 +35,7 @@ const RULES: Rule[] = [
     answers: 'count',
   },
   {
-    name: /\begg,? whites?\b|\begg white\b/,
+    name: /\beggs?\b.*\bwhites?\b/,
     unit: 'egg white',
     size: 'large',
     grams: 33,
