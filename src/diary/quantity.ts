@@ -638,7 +638,8 @@ const MAX_AMOUNT = 100_000;
 function check(q: Quantity): string[] {
   const issues: string[] = [];
   if (q.amount < 0) issues.push(`amount ${q.amount} is negative`);
-  else if (!Number.isFinite(q.amount) || q.amount === 0) issues.push('amount must be more than zero');
+  else if (!Number.isFinite(q.amount) || q.amount === 0)
+    issues.push('amount must be more than zero');
   if (q.amount > MAX_AMOUNT) issues.push(`amount ${q.amount} is not believable`);
   return issues;
 }
@@ -916,7 +917,7 @@ export function addedPortion(food: MeasuredFood): GramsResult {
   const smallest = [...food.portions]
     .filter((p) => p.grams > 0 && !/^grams?\b/i.test(p.description))
     .sort((a, b) => gramsPerPortion(a) - gramsPerPortion(b))[0];
-  if (!smallest) return defaultPortionOf(food, "no quantity given for a food added to another");
+  if (!smallest) return defaultPortionOf(food, 'no quantity given for a food added to another');
   const g = round1(gramsPerPortion(smallest));
   return {
     grams: g,

@@ -39,7 +39,19 @@ const WORD_CONNECTORS = [
   'و',
 ];
 /** Connectors that mean "with": the words after them may only describe the first food. */
-const WITH_WORDS = new Set(['with', 'con', 'avec', 'com', 'с', 'со', 'kasama', 'kasama ang', 'voi', 'के साथ', 'مع']);
+const WITH_WORDS = new Set([
+  'with',
+  'con',
+  'avec',
+  'com',
+  'с',
+  'со',
+  'kasama',
+  'kasama ang',
+  'voi',
+  'के साथ',
+  'مع',
+]);
 /** Signs joining foods with or without spaces (Chinese 和 与 跟 配 加 and its list comma). */
 const SIGN_CONNECTOR = /\s*(?:\+|&|;|、|，|和|与|跟|配)\s*/gu;
 
@@ -86,7 +98,8 @@ const MADE_BEFORE_WITH = new Set(
   ),
 );
 /** "and a half", "y medio": part of an amount. */
-const FRACTION_AFTER_AND = /^(?:a |an |un |una )?(?:half|quarter|third|medio|media|cuarto|demi|meio|meia)\b/;
+const FRACTION_AFTER_AND =
+  /^(?:a |an |un |una )?(?:half|quarter|third|medio|media|cuarto|demi|meio|meia)\b/;
 /** Words after Tagalog/English "at" that make it a place or a time, not "and". */
 const AT_PLACE = /^(?:home|work|school|night|noon|the|a|my|around|about|breakfast|lunch|dinner|\d)/;
 

@@ -59,7 +59,8 @@ export class FoodService {
       let ranked = await this.rankedWithSynonyms(words, query);
       if (ranked.length === 0 && ids.length === 0) {
         const fixed = (await this.spelling()).correctWords(words);
-        if (fixed.corrections.length > 0) ranked = await this.rankedWithSynonyms(fixed.words, query);
+        if (fixed.corrections.length > 0)
+          ranked = await this.rankedWithSynonyms(fixed.words, query);
       }
       for (const c of ranked) ids.push(c.id);
     }

@@ -31,9 +31,11 @@ const USUALLY_COOKED = new Set(
     ' ',
   ),
 );
-const COOKED = /\b(cooked|boiled|roasted|baked|broiled|grilled|stewed|fried|heated|brewed|pan-fried)\b/;
+const COOKED =
+  /\b(cooked|boiled|roasted|baked|broiled|grilled|stewed|fried|heated|brewed|pan-fried)\b/;
 /** Regional or restaurant foods a bare query rarely means. */
-const SPECIAL_SOURCE = /\((alaska native|hopi|navajo|apache|shoshone)\)|^fast food|restaurant|'s\b/i;
+const SPECIAL_SOURCE =
+  /\((alaska native|hopi|navajo|apache|shoshone)\)|^fast food|restaurant|'s\b/i;
 
 /** The query's words found as whole words (or plural/singular) of the name, not only as prefixes. */
 function wholeWordMisses(words: readonly string[], have: readonly string[]): number {

@@ -76,7 +76,7 @@ const MAX_PHRASE_WORDS = 4;
 export function synonymQueries(words: readonly string[]): string[][] {
   const out: string[] = [];
   let changed = false;
-  for (let i = 0; i < words.length; ) {
+  for (let i = 0; i < words.length;) {
     let done = false;
     for (let n = Math.min(MAX_PHRASE_WORDS, words.length - i); n >= 1; n--) {
       const phrase = words.slice(i, i + n).join(' ');

@@ -47,7 +47,8 @@ const RULES: Rule[] = [
     unit: 'piece',
     size: null,
     grams: 68,
-    source: 'USDA SR28 NDB 28306 Bread, chapati or roti, plain, commercially prepared: 1 piece = 68 g',
+    source:
+      'USDA SR28 NDB 28306 Bread, chapati or roti, plain, commercially prepared: 1 piece = 68 g',
     answers: 'count',
   },
   {
@@ -81,7 +82,8 @@ const RULES: Rule[] = [
     unit: 'orange',
     size: null,
     grams: 131,
-    source: 'USDA SR28 NDB 09200 Oranges, raw, all commercial varieties: 1 fruit (2-5/8" dia) = 131 g',
+    source:
+      'USDA SR28 NDB 09200 Oranges, raw, all commercial varieties: 1 fruit (2-5/8" dia) = 131 g',
     answers: 'count',
   },
   {
