@@ -121,6 +121,7 @@ interface AuditTools {
   /** Searches and swaps remembered: the shared ones, or the audit's own (the warm-up). */
   results: SharedCache['results'];
   swapMemo: SharedCache['swaps'];
+  spelling: SharedCache['spelling'];
 }
 
 export class DiaryAuditService {
@@ -161,6 +162,8 @@ export class DiaryAuditService {
       foodRepo.names('generic'),
       foodRepo.names('branded'),
     ]);
+    // The spelling vocabulary (read from the FTS5 index) is built now, not by the first audit.
+    await (await this.tools(true)).foodService.correctWords([]);
     let foods = 0;
     const ids = generic?.ids() ?? [];
     if (ids.length <= MAX_SHARED_FOODS) {
@@ -193,6 +196,7 @@ export class DiaryAuditService {
       swaps: new SwapService(this.db.kysely, foodRepo, this.settings),
       results: scratch ? new Map() : shared.results,
       swapMemo: scratch ? new Map() : shared.swaps,
+      spelling: scratch ? new Map() : shared.spelling,
     };
   }
 
@@ -211,7 +215,16 @@ export class DiaryAuditService {
       },
       findIdsByCode: (code) => foodRepo.findIdsByCode(code),
       getFoods: (ids) => foodRepo.getFoods(ids),
-      correctWords: (words) => foodService.correctWords(words),
+      correctWords: (words) => {
+        const key = words.join(' ');
+        let hit = tools.spelling.get(key);
+        if (!hit) {
+          hit = foodService.correctWords(words);
+          tools.spelling.set(key, hit);
+          hit.catch(() => tools.spelling.delete(key));
+        }
+        return hit;
+      },
     };
   }
 
