@@ -49,6 +49,10 @@ export const changeMatchBodySchema = z
     /** 'confirm' keeps the matched food, 'change' picks another; both are remembered. */
     action: z.enum(['confirm', 'change']).optional(),
     remember: z.boolean().default(true),
+    /** Which food of the line (0 = the first), when the line names several. */
+    part: z.number().int().min(0).max(50).optional(),
+    /** The amount eaten as the reviewer enters it ("30 g", "2 slices"); replaces the diary's. */
+    quantity: z.string().trim().min(1).max(100).optional(),
   })
   .strict();
 
@@ -229,6 +233,8 @@ export const diaryRoutes: FastifyPluginAsync<{ db: Db; clock: Clock }> = async (
         await service.changeMatch(req.params.id, req.params.line, req.body.foodId, {
           remember: req.body.remember,
           userId: req.user?.id ?? null,
+          ...(req.body.part === undefined ? {} : { part: req.body.part }),
+          ...(req.body.quantity === undefined ? {} : { quantity: req.body.quantity }),
         }),
       ),
   );

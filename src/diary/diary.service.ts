@@ -24,8 +24,10 @@ import {
   sharedFoods,
   type SharedCache,
 } from './shared-foods.js';
+import { parseQuantity, type Quantity } from './quantity.js';
 import {
   decodeDiaryBytes,
+  entryKey,
   readDiary,
   type DiaryEntryInput,
   type DiaryFormat,
@@ -86,6 +88,28 @@ lunch: ham sandwich
 dinner: 150 g salmon, baked
 `;
 
+/**
+ * The reviewer's choices, by entry key ("12", "12.1"): a food id (as saved before amounts could
+ * be entered), or a food id with the amount the reviewer entered.
+ */
+export type EntryOverride = number | { foodId: number; quantity?: string };
+export type Overrides = Readonly<Record<string, EntryOverride>>;
+
+function overrideFood(o: EntryOverride | undefined): number | undefined {
+  return o === undefined ? undefined : typeof o === 'number' ? o : o.foodId;
+}
+
+/** The amounts the reviewer entered, parsed (each was checked when it was entered). */
+function enteredQuantities(overrides: Overrides): Map<string, Quantity> {
+  const out = new Map<string, Quantity>();
+  for (const [k, o] of Object.entries(overrides)) {
+    if (typeof o !== 'object' || !o.quantity) continue;
+    const q = parseQuantity(o.quantity);
+    if (q.ok) out.set(k, q.value);
+  }
+  return out;
+}
+
 /** Passes over the warm-up diary: enough for V8 to optimise the scorer (measured, no source). */
 const WARM_UP_PASSES = 3;
 
@@ -97,6 +121,7 @@ interface AuditTools {
   /** Searches and swaps remembered: the shared ones, or the audit's own (the warm-up). */
   results: SharedCache['results'];
   swapMemo: SharedCache['swaps'];
+  spelling: SharedCache['spelling'];
 }
 
 export class DiaryAuditService {
@@ -137,6 +162,8 @@ export class DiaryAuditService {
       foodRepo.names('generic'),
       foodRepo.names('branded'),
     ]);
+    // The spelling vocabulary (read from the FTS5 index) is built now, not by the first audit.
+    await (await this.tools(true)).foodService.correctWords([]);
     let foods = 0;
     const ids = generic?.ids() ?? [];
     if (ids.length <= MAX_SHARED_FOODS) {
@@ -169,6 +196,7 @@ export class DiaryAuditService {
       swaps: new SwapService(this.db.kysely, foodRepo, this.settings),
       results: scratch ? new Map() : shared.results,
       swapMemo: scratch ? new Map() : shared.swaps,
+      spelling: scratch ? new Map() : shared.spelling,
     };
   }
 
@@ -187,6 +215,16 @@ export class DiaryAuditService {
       },
       findIdsByCode: (code) => foodRepo.findIdsByCode(code),
       getFoods: (ids) => foodRepo.getFoods(ids),
+      correctWords: (words) => {
+        const key = words.join(' ');
+        let hit = tools.spelling.get(key);
+        if (!hit) {
+          hit = foodService.correctWords(words);
+          tools.spelling.set(key, hit);
+          hit.catch(() => tools.spelling.delete(key));
+        }
+        return hit;
+      },
     };
   }
 
@@ -201,9 +239,9 @@ export class DiaryAuditService {
   /** Matches every entry: the dietitian's choice for the line first, then the matcher. */
   private async matchAll(
     entries: readonly DiaryEntryInput[],
-    overrides: Readonly<Record<string, number>>,
+    overrides: Overrides,
     tools: AuditTools,
-  ): Promise<Map<number, EntryMatchInput>> {
+  ): Promise<Map<string, EntryMatchInput>> {
     // One query for the clinic's remembered matches of every phrase in the diary.
     const remembered = await this.repo.lookupMemory(CLINIC_KEY, [
       ...new Set(entries.map((e) => memoryKey(e.foodText)).filter(Boolean)),
@@ -216,14 +254,15 @@ export class DiaryAuditService {
           ),
         ),
     });
-    const chosenIds = Object.values(overrides);
+    const chosenIds = Object.values(overrides).map((o) => overrideFood(o) as number);
     const chosen = chosenIds.length > 0 ? await tools.foodRepo.getFoods(chosenIds) : new Map();
-    const out = new Map<number, EntryMatchInput>();
+    const out = new Map<string, EntryMatchInput>();
     for (const e of entries) {
-      const o = overrides[String(e.line)];
+      const key = entryKey(e);
+      const o = overrideFood(overrides[key]);
       const food = o === undefined ? undefined : chosen.get(o);
       if (food) {
-        out.set(e.line, {
+        out.set(key, {
           food,
           method: 'confirmed',
           confidence: 1,
@@ -232,7 +271,7 @@ export class DiaryAuditService {
         });
         continue;
       }
-      out.set(e.line, await matcher.match({ foodText: e.foodText, barcode: e.barcode }));
+      out.set(key, await matcher.match({ foodText: e.foodText, barcode: e.barcode }));
     }
     return out;
   }
@@ -307,7 +346,7 @@ export class DiaryAuditService {
 
   private async compute(
     entries: readonly DiaryEntryInput[],
-    overrides: Readonly<Record<string, number>>,
+    overrides: Overrides,
     patientId: number | null,
     skipped: readonly DiaryIssue[],
     notes: readonly DiaryIssue[],
@@ -322,6 +361,7 @@ export class DiaryAuditService {
     const built = buildDiaryReport({
       entries,
       matches,
+      quantities: enteredQuantities(overrides),
       settings,
       targets,
       targetsSource: patientId === null ? 'none' : 'patient',
@@ -408,7 +448,7 @@ export class DiaryAuditService {
     id: number,
     line: number,
     foodId: number,
-    opts: { remember: boolean; userId: number | null },
+    opts: { remember: boolean; userId: number | null; part?: number; quantity?: string },
   ): Promise<SavedAudit> {
     const row = await this.repo.get(id);
     if (!row) throw new NotFoundError('diary audit', id);
@@ -417,19 +457,36 @@ export class DiaryAuditService {
       skipped: DiaryIssue[];
       notes: DiaryIssue[];
     };
-    const entry = stored.entries.find((e) => e.line === line);
+    const part = opts.part ?? 0;
+    const entry = stored.entries.find((e) => e.line === line && (e.part ?? 0) === part);
     if (!entry) {
       throw new AppError(
         'PHL_DIARY_LINE_NOT_FOUND',
         404,
-        `diary audit ${id} has no entry on line ${line}`,
+        part > 0
+          ? `diary audit ${id} has no food ${part + 1} on line ${line}`
+          : `diary audit ${id} has no entry on line ${line}`,
       );
     }
     const food = await this.foodRepo.getFood(foodId);
     if (!food) throw new NotFoundError('food', foodId);
-    const overrides = {
-      ...(JSON.parse(row.overridesJson) as Record<string, number>),
-      [String(line)]: foodId,
+    const previous = (JSON.parse(row.overridesJson) as Overrides)[entryKey(entry)];
+    // The line's own amount is kept when the food changes; an amount the reviewer entered before
+    // stays unless a new one is given.
+    const keptQuantity =
+      opts.quantity ?? (typeof previous === 'object' ? previous.quantity : undefined);
+    if (opts.quantity !== undefined) {
+      const q = parseQuantity(opts.quantity);
+      if (!q.ok) {
+        throw new BadRequestError(
+          'PHL_DIARY_QUANTITY',
+          `quantity '${opts.quantity.slice(0, 100)}' not understood: ${q.issues.join('; ')}`,
+        );
+      }
+    }
+    const overrides: Overrides = {
+      ...(JSON.parse(row.overridesJson) as Overrides),
+      [entryKey(entry)]: keptQuantity ? { foodId, quantity: keptQuantity } : foodId,
     };
     const report = await this.compute(
       stored.entries,

@@ -19,8 +19,15 @@ import type {
 import { profileFood, scaleProfile, type PhosphorusProfile } from '../phosphorus/profile.js';
 import { memoryKey } from './matcher.js';
 import type { Candidate, MatchMethod } from './matching.service.js';
-import { defaultPortion, quantityToGrams, type GramsResult } from './quantity.js';
-import type { DiaryEntryInput } from './reader.js';
+import { handfulToGrams } from './handful.js';
+import {
+  addedPortion,
+  defaultPortion,
+  quantityToGrams,
+  type GramsResult,
+  type Quantity,
+} from './quantity.js';
+import { entryKey, type DiaryEntryInput } from './reader.js';
 
 /** Where an entry's food came from, as the report shows it. */
 export interface EntryMatchInput {
@@ -33,6 +40,10 @@ export interface EntryMatchInput {
 
 export interface DiaryEntryReport {
   line: number;
+  /** Which food of the line (0 = the first or only one). */
+  part: number;
+  /** The entry's name for confirming or changing it: "12", or "12.1" for the line's second food. */
+  key: string;
   text: string;
   date: string | null;
   day: string;
@@ -52,6 +63,19 @@ export interface DiaryEntryReport {
   additiveLikely: boolean;
   splitMethod: string | null;
   findings: string[];
+  /** False while the entry waits for review (see `review`): it is left out of the day totals. */
+  counted: boolean;
+  /** Why the entry waits for review; empty when it is counted. */
+  review: string[];
+}
+
+/** An entry left out of the totals until the reviewer confirms its food or enters its amount. */
+export interface DiaryReviewItem {
+  key: string;
+  line: number;
+  part: number;
+  text: string;
+  reasons: string[];
 }
 
 export interface DiarySwap {
@@ -66,6 +90,8 @@ export interface DiaryDayReport {
   label: string;
   entryCount: number;
   unmatchedCount: number;
+  /** Entries of the day waiting for review (not in the totals). */
+  reviewCount: number;
   nutrients: Nutrients;
   status: DayStatus;
   topContributors: Contributor[];
@@ -83,6 +109,8 @@ export interface DiaryReport {
   entries: DiaryEntryReport[];
   days: DiaryDayReport[];
   unmatched: number[];
+  /** Entries left out of the totals until reviewed, in diary order. */
+  review: DiaryReviewItem[];
   status: 'complete' | 'incomplete';
   skipped: DiaryIssueReport[];
   notes: DiaryIssueReport[];
@@ -90,6 +118,13 @@ export interface DiaryReport {
   targetsSource: 'patient' | 'none';
   caution: string;
 }
+
+/**
+ * A match found by the food's words with a confidence under this is listed for review and left
+ * out of the totals until the reviewer confirms it (the product's own threshold, no source: on
+ * the labelled set most matches under it are guesses).
+ */
+export const REVIEW_BELOW_CONFIDENCE = 0.5;
 
 export const DIARY_CAUTION =
   'Estimates from a food diary matched to food-table values, with assumed absorption fractions: check the matches and portions, and discuss with the care team before changing a diet or a binder.';
@@ -128,9 +163,66 @@ function entryFood(food: Food, entry: DiaryEntryInput): Food {
   return { ...food, ingredients: entry.ingredients, ingredientsLanguage: null };
 }
 
+interface DayCounts {
+  entries: number;
+  unmatched: number;
+  review: number;
+}
+
+/**
+ * The grams of one matched entry and why it must wait for review, if it must: a weak match, a
+ * negative amount, or a handful of a food a handful does not measure. The reviewer's amount
+ * replaces the diary's own; a confirmed food is never held back for its confidence.
+ */
+function entryAmount(
+  e: DiaryEntryInput,
+  food: Food,
+  m: EntryMatchInput,
+  entered: Quantity | undefined,
+  cache: Map<string, GramsResult>,
+): { grams: GramsResult | null; review: string[] } {
+  const review: string[] = [];
+  if (m.method === 'text' && m.confidence < REVIEW_BELOW_CONFIDENCE) {
+    review.push(
+      `the food was matched at ${Math.round(m.confidence * 100)}% confidence, under the ${REVIEW_BELOW_CONFIDENCE * 100}% an entry needs to count without review: confirm or change it`,
+    );
+  }
+  if (entered) {
+    const grams = quantityToGrams(entered, food, memoryKey(e.foodText).split(' '));
+    return { grams: { ...grams, note: `amount entered by the reviewer: ${grams.note}` }, review };
+  }
+  if (e.negativeAmount) {
+    review.push(`the amount '${e.negativeAmount}' is negative: enter the amount eaten`);
+    return { grams: null, review };
+  }
+  if (e.quantity?.unit === 'handful') {
+    const h = handfulToGrams(e.quantity, food);
+    if (!h.ok) {
+      review.push(h.question);
+      return { grams: null, review };
+    }
+    return { grams: h.grams, review };
+  }
+  const gramsKey = `${food.id}|${e.quantityUnreadable}|${e.addedTo === true}|${e.quantityText ?? ''}|${e.foodText}`;
+  let grams = cache.get(gramsKey);
+  if (!grams || food !== m.food) {
+    const entryWords = memoryKey(e.foodText).split(' ');
+    grams = e.quantityUnreadable
+      ? defaultPortion(food, `quantity '${e.quantityText ?? ''}' not understood`)
+      : e.quantity === null && e.addedTo
+        ? addedPortion(food)
+        : quantityToGrams(e.quantity, food, entryWords);
+    cache.set(gramsKey, grams);
+  }
+  return { grams, review };
+}
+
 export interface BuildInput {
   entries: readonly DiaryEntryInput[];
-  matches: ReadonlyMap<number, EntryMatchInput>;
+  /** Matches by `entryKey`. */
+  matches: ReadonlyMap<string, EntryMatchInput>;
+  /** Amounts the reviewer entered, by `entryKey`: they replace the diary's own. */
+  quantities?: ReadonlyMap<string, Quantity>;
   settings: SummarySettings;
   targets: Targets;
   targetsSource: 'patient' | 'none';
@@ -152,7 +244,7 @@ export function buildDiaryReport(input: BuildInput): Omit<DiaryReport, 'days'> &
   const dayOrder: string[] = [];
   const byDay = new Map<string, Map<string, PlanDay['occasions'][number]>>();
   const dayDates = new Map<string, string | null>();
-  const dayCounts = new Map<string, { entries: number; unmatched: number }>();
+  const dayCounts = new Map<string, DayCounts>();
   // One profile per food (a diary repeats its foods); an entry's own statement makes a new food.
   const profiles = new Map<Food, PhosphorusProfile>();
   const gramsCache = new Map<string, GramsResult>();
@@ -163,11 +255,12 @@ export function buildDiaryReport(input: BuildInput): Omit<DiaryReport, 'days'> &
       byDay.set(key, new Map());
       dayOrder.push(key);
       dayDates.set(key, e.date);
-      dayCounts.set(key, { entries: 0, unmatched: 0 });
+      dayCounts.set(key, { entries: 0, unmatched: 0, review: 0 });
     }
-    const counts = dayCounts.get(key) as { entries: number; unmatched: number };
+    const counts = dayCounts.get(key) as DayCounts;
     counts.entries++;
-    const m = matches.get(e.line) ?? {
+    const ek = entryKey(e);
+    const m = matches.get(ek) ?? {
       food: null,
       method: 'none' as const,
       confidence: 0,
@@ -177,6 +270,8 @@ export function buildDiaryReport(input: BuildInput): Omit<DiaryReport, 'days'> &
     const findings = [...e.flags, ...m.notes];
     const base = {
       line: e.line,
+      part: e.part ?? 0,
+      key: ek,
       text: e.text,
       date: e.date,
       day: key,
@@ -201,30 +296,29 @@ export function buildDiaryReport(input: BuildInput): Omit<DiaryReport, 'days'> &
         additiveLikely: false,
         splitMethod: null,
         findings,
+        counted: false,
+        review: [],
       });
       continue;
     }
     const food = entryFood(m.food, e);
-    const gramsKey = `${food.id}|${e.quantityUnreadable}|${e.quantityText ?? ''}|${e.foodText}`;
-    let grams = gramsCache.get(gramsKey);
-    if (!grams || food !== m.food) {
-      const entryWords = memoryKey(e.foodText).split(' ');
-      grams = e.quantityUnreadable
-        ? defaultPortion(food, `quantity '${e.quantityText ?? ''}' not understood`)
-        : quantityToGrams(e.quantity, food, entryWords);
-      gramsCache.set(gramsKey, grams);
-    }
+    const amount = entryAmount(e, food, m, input.quantities?.get(ek), gramsCache);
+    const grams = amount.grams;
     let profile = profiles.get(food);
     if (!profile) {
       profile = profileFood(food, settings.absorption);
       profiles.set(food, profile);
     }
     // A cooking word ("boiled", "hervido"...) on a raw entry: counted boiled and drained.
-    const cooking = diaryPreparation(e.foodText, food, profile, settings.absorption, grams.grams);
+    const cooking = grams
+      ? diaryPreparation(e.foodText, food, profile, settings.absorption, grams.grams)
+      : null;
     if (cooking) findings.push(cooking.finding);
-    const scaled = preparedScale(scaleProfile(profile, grams.grams), cooking?.amounts ?? null);
+    const scaled = grams
+      ? preparedScale(scaleProfile(profile, grams.grams), cooking?.amounts ?? null)
+      : null;
     const hidden = profile.additiveLikely && !profile.additiveEvidentFromName;
-    if (grams.assumed) findings.push(`portion assumed: ${grams.note}`);
+    if (grams?.assumed) findings.push(`portion assumed: ${grams.note}`);
     if (profile.additiveLikely) {
       findings.push(
         hidden
@@ -235,43 +329,51 @@ export function buildDiaryReport(input: BuildInput): Omit<DiaryReport, 'days'> &
     findings.push(...profile.evidence);
     if (profile.totalMg === null)
       findings.push('the food table has no phosphorus value for this food');
-    // Summary ids: a food eaten with the diary's own ingredient statement is its own variant.
-    const summaryId = e.ingredients ? -e.line : food.id;
-    foodsForSummary.set(summaryId, summaryId < 0 ? { ...food, id: summaryId } : food);
-    realId.set(summaryId, food.id);
-    const occName = e.occasion ?? 'unspecified';
-    const occasions = byDay.get(key) as Map<string, PlanDay['occasions'][number]>;
-    let occ = occasions.get(occName);
-    if (!occ) {
-      occ = { name: occName, kind: guessOccasionKind(occName), time: e.time, items: [] };
-      occasions.set(occName, occ);
+    const counted = amount.review.length === 0 && grams !== null;
+    if (counted) {
+      // Summary ids: a food eaten with the diary's own ingredient statement is its own variant.
+      const summaryId = e.ingredients ? -(e.line * 100 + (e.part ?? 0)) : food.id;
+      foodsForSummary.set(summaryId, summaryId < 0 ? { ...food, id: summaryId } : food);
+      realId.set(summaryId, food.id);
+      const occName = e.occasion ?? 'unspecified';
+      const occasions = byDay.get(key) as Map<string, PlanDay['occasions'][number]>;
+      let occ = occasions.get(occName);
+      if (!occ) {
+        occ = { name: occName, kind: guessOccasionKind(occName), time: e.time, items: [] };
+        occasions.set(occName, occ);
+      }
+      occ.items.push({
+        foodId: summaryId,
+        grams: grams.grams,
+        measure: null,
+        label: e.text.slice(0, 120),
+        ...(cooking?.item ?? {}),
+      });
+    } else {
+      counts.review++;
+      findings.push('waiting for review: not counted in the totals until confirmed');
     }
-    occ.items.push({
-      foodId: summaryId,
-      grams: grams.grams,
-      measure: null,
-      label: e.text.slice(0, 120),
-      ...(cooking?.item ?? {}),
-    });
     reports.push({
       ...base,
       match: { foodId: m.food.id, name: m.food.name, confidence: m.confidence },
-      grams: grams.grams,
-      quantityAssumed: grams.assumed,
-      quantityNote: grams.note,
-      phosphorusMg: scaled.totalMg === null ? null : r1(scaled.totalMg),
-      absorbablePhosphorusMg: scaled.absorbableMg
+      grams: grams?.grams ?? null,
+      quantityAssumed: grams?.assumed ?? false,
+      quantityNote: grams?.note ?? null,
+      phosphorusMg: scaled?.totalMg == null ? null : r1(scaled.totalMg),
+      absorbablePhosphorusMg: scaled?.absorbableMg
         ? {
             low: r1(scaled.absorbableMg.low),
             typical: r1(scaled.absorbableMg.typical),
             high: r1(scaled.absorbableMg.high),
           }
         : null,
-      additivePhosphorusMg: scaled.additiveMg === null ? null : r1(scaled.additiveMg),
+      additivePhosphorusMg: scaled?.additiveMg == null ? null : r1(scaled.additiveMg),
       hidden,
       additiveLikely: profile.additiveLikely,
       splitMethod: profile.method,
       findings,
+      counted,
+      review: amount.review,
     });
   }
 
@@ -288,11 +390,16 @@ export function buildDiaryReport(input: BuildInput): Omit<DiaryReport, 'days'> &
   const summary = summarizePlan(plan, foodsForSummary, input.targets, settings, null);
   const days = summary.days.map((d, i) => {
     const label = dayOrder[i] as string;
-    const counts = dayCounts.get(label) as { entries: number; unmatched: number };
+    const counts = dayCounts.get(label) as DayCounts;
     const status = { ...d.status, messages: [...d.status.messages] };
     if (counts.unmatched > 0) {
       status.messages.push(
         `${counts.unmatched} of ${counts.entries} entries not matched: the totals are too low by their amount`,
+      );
+    }
+    if (counts.review > 0) {
+      status.messages.push(
+        `${counts.review} of ${counts.entries} entries wait for review and are not in the totals yet`,
       );
     }
     return {
@@ -300,6 +407,7 @@ export function buildDiaryReport(input: BuildInput): Omit<DiaryReport, 'days'> &
       label,
       entryCount: counts.entries,
       unmatchedCount: counts.unmatched,
+      reviewCount: counts.review,
       nutrients: d.nutrients,
       status,
       topContributors: d.topContributors.map((c) => ({
@@ -313,6 +421,9 @@ export function buildDiaryReport(input: BuildInput): Omit<DiaryReport, 'days'> &
     entries: reports,
     days,
     unmatched,
+    review: reports
+      .filter((r) => r.review.length > 0)
+      .map((r) => ({ key: r.key, line: r.line, part: r.part, text: r.text, reasons: r.review })),
     status: input.skipped.length > 0 ? 'incomplete' : 'complete',
     skipped: [...input.skipped],
     notes: [...input.notes],

@@ -8,12 +8,18 @@ import {
   searchTexts,
   sortScored,
   spellingVariants,
+  stem,
+  type PreparedQuery,
   type ScoredFood,
 } from './matcher.js';
 
 /** The food-table access the matcher needs (FoodService + FoodRepository satisfy it). */
 export interface FoodFinder {
   search(q: { q: string; limit: number }): Promise<Food[]>;
+  /** Unknown words read as the nearest common word of the tables (FoodService.correctWords). */
+  correctWords?(
+    words: readonly string[],
+  ): Promise<{ words: string[]; corrections: { from: string; to: string }[] }>;
   findIdsByCode(code: string): Promise<number[]>;
   getFoods(ids: readonly number[]): Promise<Map<number, Food>>;
 }
@@ -42,6 +48,8 @@ export interface EntryMatch {
 }
 
 const SEARCH_LIMIT = 40;
+/** Confidence kept per word read with another spelling (the product's own factor, no source). */
+const SPELLING_CONFIDENCE = 0.85;
 const RUNNERS_UP = 4;
 
 /**
@@ -65,6 +73,20 @@ export class DiaryMatcher {
       this.cache.set(key, hit);
     }
     return hit;
+  }
+
+  /**
+   * Replaces (in place) the query's words that start no word of any food name with the nearest
+   * common word of the tables; returns what it replaced.
+   */
+  private async correctSpelling(q: PreparedQuery): Promise<{ from: string; to: string }[]> {
+    if (!this.foods.correctWords || q.words.length === 0) return [];
+    const fixed = await this.foods.correctWords(q.words);
+    if (fixed.corrections.length === 0) return [];
+    const map = new Map(fixed.corrections.map((c) => [c.from, stem(c.to)]));
+    q.words = [...new Set(q.words.map((w) => map.get(w) ?? w))];
+    q.headWords = [...new Set(q.headWords.map((w) => map.get(w) ?? w))];
+    return fixed.corrections;
   }
 
   private async matchUncached(entry: {
@@ -91,6 +113,12 @@ export class DiaryMatcher {
       }
     }
     const q = prepareQuery(entry.foodText);
+    const corrected = await this.correctSpelling(q);
+    if (corrected.length > 0) {
+      notes.push(
+        `spelling read as ${corrected.map((c) => `'${c.from}' -> '${c.to}'`).join(', ')}: check the food`,
+      );
+    }
     if (q.words.length === 0) {
       notes.push('no food words to search for');
       return { food: null, method: 'none', confidence: 0, candidates: [], notes };
@@ -129,7 +157,10 @@ export class DiaryMatcher {
       }));
       return { food: null, method: 'none', confidence: 0, candidates: all, notes };
     }
-    const confidence = matchConfidence(top, best[1]);
+    // A word read with another spelling is a guess: the confidence says so.
+    const confidence =
+      Math.round(matchConfidence(top, best[1]) * SPELLING_CONFIDENCE ** corrected.length * 100) /
+      100;
     if (q.dropped.length > 0) {
       notes.push(
         `only the first food was matched; '${q.dropped.join(' ').slice(0, 60)}' is not counted: enter it as its own line`,

@@ -3,6 +3,7 @@
  * "2-3 slices", "a can (355 ml)". No I/O; the gram conversion takes the food's own measures.
  */
 import type { Portion } from '../foods/food.js';
+import { typicalUnit } from '../foods/unit-weights.js';
 
 export type QuantityUnit =
   | 'g'
@@ -21,7 +22,8 @@ export type QuantityUnit =
   | 'bottle'
   | 'packet'
   | 'bowl'
-  | 'serving';
+  | 'serving'
+  | 'handful';
 
 /** A parsed quantity: `amount` units (a range is taken at its midpoint, see DEVELOPERS.md). */
 export interface Quantity {
@@ -215,6 +217,22 @@ const UNIT_WORDS: [string, QuantityUnit][] = (
     ['porcion', 'serving'],
     ['raciones', 'serving'],
     ['racion', 'serving'],
+    // A handful has no size of its own: grams come from a stated assumption per food class
+    // (see handful.ts), or the line is asked about. Misspellings diaries write are read too.
+    ['handfulls', 'handful'],
+    ['handfull', 'handful'],
+    ['handfuls', 'handful'],
+    ['handful', 'handful'],
+    ['hand full', 'handful'],
+    ['punados', 'handful'],
+    ['punado', 'handful'],
+    ['poignees', 'handful'],
+    ['poignee', 'handful'],
+    ['punhados', 'handful'],
+    ['punhado', 'handful'],
+    ['горсти', 'handful'],
+    ['горсть', 'handful'],
+    ['dakot', 'handful'],
   ] as [string, QuantityUnit][]
 ).sort((a, b) => b[0].length - a[0].length);
 
@@ -290,6 +308,10 @@ const VULGAR: Record<string, number> = {
 };
 
 /** Lower case without accents, one output character per input character (offsets line up). */
+export function foldAligned(text: string): string {
+  return fold(text);
+}
+
 function fold(text: string): string {
   // eslint-disable-next-line no-control-regex
   if (/^[\x00-\x7f]*$/.test(text)) return text.toLowerCase();
@@ -615,7 +637,9 @@ const MAX_AMOUNT = 100_000;
 
 function check(q: Quantity): string[] {
   const issues: string[] = [];
-  if (!Number.isFinite(q.amount) || q.amount <= 0) issues.push('amount must be more than zero');
+  if (q.amount < 0) issues.push(`amount ${q.amount} is negative`);
+  else if (!Number.isFinite(q.amount) || q.amount === 0)
+    issues.push('amount must be more than zero');
   if (q.amount > MAX_AMOUNT) issues.push(`amount ${q.amount} is not believable`);
   return issues;
 }
@@ -630,6 +654,8 @@ export function parseQuantity(text: string): QuantityResult {
   if (trimmed.length === 0) return { ok: false, issues: ['quantity is empty'] };
   if (trimmed.length > 100)
     return { ok: false, issues: ['quantity is longer than 100 characters'] };
+  if (NEGATIVE_AMOUNT.test(trimmed))
+    return { ok: false, issues: [`the amount '${trimmed}' is negative`] };
   const folded = fold(trimmed);
   const read = readPrefix(folded, trimmed);
   if (!read) return { ok: false, issues: [`no amount or unit in '${trimmed}'`] };
@@ -648,13 +674,18 @@ export function parseQuantity(text: string): QuantityResult {
 
 /** Amounts a diary writes that say no size ("a handful of", "some", "un poco de"). */
 const VAGUE_AMOUNT =
-  /^(?:an?\s+|un\s+|una\s+)?(?:handful|handfuls|pinch|splash|dash|bit|little|few|some|lots|plenty|poco|puñado|pizca|chorrito|algo|varios|varias)(?:\s+of|\s+de)?\s+/i;
+  /^(?:an?\s+|un\s+|una\s+)?(?:pinch|splash|dash|bit|little|few|some|lots|plenty|poco|pizca|chorrito|algo|varios|varias)(?:\s+of|\s+de)?\s+/i;
+
+/** A minus sign before an amount ("-100 g", "−2 slices"): a negative amount, never "no amount". */
+const NEGATIVE_AMOUNT = /^\s*[-−–]\s*(\d+(?:[.,]\d+)?(?:\s*[\p{L}.]+)?)/u;
 
 export interface SplitEntry {
   /** The quantity found in the text, or null (none written). */
   quantity: Quantity | null;
-  /** A vague amount that was written but says no size ("a handful of"). */
+  /** A vague amount that was written but says no size ("a pinch of"). */
   vague?: string;
+  /** A negative amount as written ("-100 g"): the line cannot be counted until corrected. */
+  negative?: string;
   /** The food words once the quantity is taken out. */
   foodText: string;
 }
@@ -665,6 +696,17 @@ export interface SplitEntry {
  */
 export function splitQuantity(text: string): SplitEntry {
   const trimmed = text.trim();
+  const negative = NEGATIVE_AMOUNT.exec(trimmed);
+  if (negative) {
+    const lead = readPrefix(fold(negative[1] as string), negative[1] as string);
+    const end = negative[0].length - (negative[1] as string).length + (lead?.end ?? 0);
+    const foodText = trimmed
+      .slice(lead ? end : negative[0].length)
+      .replace(/^[\s,:-]+/, '')
+      .trim();
+    if (foodText.length > 0)
+      return { quantity: null, foodText, negative: trimmed.slice(0, end).trim() };
+  }
   const vague = VAGUE_AMOUNT.exec(trimmed);
   if (vague && vague[0].length < trimmed.length) {
     return {
@@ -724,6 +766,7 @@ export type GramsMethod =
   | 'container'
   | 'household-measure'
   | 'generic-size'
+  | 'typical-unit'
   | 'default-portion';
 
 export interface GramsResult {
@@ -737,6 +780,8 @@ export interface GramsResult {
 
 /** What the converter needs of a food: its own household measures and serving. */
 export interface MeasuredFood {
+  /** The food's name, to find a typical unit weight when its table has no household measure. */
+  name?: string;
   portions: readonly Portion[];
   servingG: number | null;
   servingText?: string | null;
@@ -777,6 +822,9 @@ export const GENERIC_SIZES_ML: Partial<Record<QuantityUnit, number>> = {
 };
 
 function gramsPerPortion(p: Portion): number {
+  // USDA SR28 writes a serving as "grams 1 serving" with Amount = Gm_Wgt (56 and 56 g): the
+  // measure is one serving of that weight, not 56 items of 1 g.
+  if (/^grams?\b/i.test(p.description)) return p.grams;
   return p.amount > 0 ? p.grams / p.amount : p.grams;
 }
 
@@ -821,7 +869,35 @@ function findPortion(
 /** The food's usual single item: a "medium" measure, else its first measure that is not a weight or volume. */
 function usualItem(food: MeasuredFood): Portion | null {
   const countLike = food.portions.filter((p) => !MASS_OR_VOLUME.test(p.description.toLowerCase()));
-  return countLike.find((p) => /^medium\b/i.test(p.description)) ?? countLike[0] ?? null;
+  // A cubic inch or a cup of crumbs is a table's measure, not a portion anyone eats.
+  const eaten = countLike.filter((p) => !ODD_MEASURE.test(p.description));
+  return (
+    eaten.find((p) => /^medium\b/i.test(p.description)) ??
+    eaten[0] ??
+    countLike.find((p) => /^medium\b/i.test(p.description)) ??
+    countLike[0] ??
+    null
+  );
+}
+const ODD_MEASURE = /cubic|inch|crumb|cubes?\b|dash|pinch|^grams?\b/i;
+
+/** The typical unit weight (referenced table) when the food's own table has no such measure. */
+function typicalGrams(
+  food: MeasuredFood,
+  answers: 'slice' | 'count',
+  n: number,
+  label: string,
+): GramsResult | null {
+  if (!food.name) return null;
+  const t = typicalUnit(food.name, answers);
+  if (!t) return null;
+  const grams = round1(n * t.grams);
+  return {
+    grams,
+    method: 'typical-unit',
+    assumed: true,
+    note: `${label}: the food table has no ${t.unit} measure; typical ${t.size ? `${t.size} ` : ''}${t.unit} ${t.grams} g (${t.source}) x ${n} = ${grams} g`,
+  };
 }
 
 /**
@@ -830,6 +906,28 @@ function usualItem(food: MeasuredFood): Portion | null {
  * in the table, else its serving size, else 100 g. Always marked assumed.
  */
 export function defaultPortion(food: MeasuredFood, why: string): GramsResult {
+  return defaultPortionOf(food, why);
+}
+
+/**
+ * The default for a food written "with" another and no amount ("coffee with milk"): an
+ * addition, so the food's smallest household measure, else the usual default. Assumed.
+ */
+export function addedPortion(food: MeasuredFood): GramsResult {
+  const smallest = [...food.portions]
+    .filter((p) => p.grams > 0 && !/^grams?\b/i.test(p.description))
+    .sort((a, b) => gramsPerPortion(a) - gramsPerPortion(b))[0];
+  if (!smallest) return defaultPortionOf(food, 'no quantity given for a food added to another');
+  const g = round1(gramsPerPortion(smallest));
+  return {
+    grams: g,
+    method: 'default-portion',
+    assumed: true,
+    note: `no quantity given for a food added to another; assumed its smallest measure, 1 ${smallest.description} (${g} g) from the food table`,
+  };
+}
+
+function defaultPortionOf(food: MeasuredFood, why: string): GramsResult {
   const first = usualItem(food) ?? food.portions[0];
   if (first) {
     const g = round1(gramsPerPortion(first));
@@ -938,6 +1036,11 @@ export function quantityToGrams(
         note: `${label} x ${food.servingG} g serving = ${grams} g`,
       };
     }
+    const typical =
+      q.unit === 'slice' || q.unit === 'piece'
+        ? typicalGrams(food, q.unit === 'slice' ? 'slice' : 'count', n, label)
+        : null;
+    if (typical) return typical;
     const generic = GENERIC_SIZES_ML[q.unit];
     if (generic !== undefined) {
       const r = volumeToGrams(
@@ -967,6 +1070,10 @@ export function quantityToGrams(
     };
   }
   const countLike = usualItem(food);
+  if (!countLike && q.measureText === null) {
+    const typical = typicalGrams(food, 'count', n, label);
+    if (typical) return typical;
+  }
   if (countLike) {
     const grams = round1(n * gramsPerPortion(countLike));
     return {

@@ -4,11 +4,21 @@
  * Bad lines are reported with where and why; nothing here throws on user input.
  */
 import { parseQuantity, splitQuantity, type Quantity } from './quantity.js';
+import { splitFoodParts } from './split-foods.js';
 
 /** One diary entry as read, before matching. */
 export interface DiaryEntryInput {
   /** 1-based line number in the file (the first line of a CSV record). */
   line: number;
+  /**
+   * Which food of the line (0-based) when the line names several ("toast with cheese"); absent
+   * or 0 for the first. `entryKey` names an entry by line and part.
+   */
+  part?: number;
+  /** How many foods the line names, when more than one. */
+  partsOnLine?: number;
+  /** Written "with" the food before it ("coffee with milk"): a small addition, not a serving. */
+  addedTo?: boolean;
   /** ISO date (yyyy-mm-dd) when the diary gave one, else null. */
   date: string | null;
   /** The day as the diary named it ("2024-03-05", "Tuesday", "Day 1"; "" when none). */
@@ -24,6 +34,8 @@ export interface DiaryEntryInput {
   quantity: Quantity | null;
   /** True when a quantity was written but could not be read. */
   quantityUnreadable: boolean;
+  /** A negative amount as written ("-100 g"): the entry waits for the reviewer's amount. */
+  negativeAmount?: string;
   barcode: string | null;
   ingredients: string | null;
   /** Plain-language notes on this line (encoding, date, quantity). */
@@ -324,7 +336,8 @@ export function readDay(
       problem: null,
     };
   }
-  m = /^(day|dia)\s*(\d{1,2})(?![\d])/.exec(f);
+  // "Day 1" to "Day 999": a diary kept for a year numbers its days past 99.
+  m = /^(day|dia)\s*(\d{1,3})(?![\d])/.exec(f);
   if (m)
     return {
       day: { date: null, label: `Day ${Number(m[2])}` },
@@ -482,16 +495,23 @@ function looksLikeCsv(text: string): boolean {
 /** Diaries repeat their lines: the split of a line's text is kept (it is pure). */
 const splitCache = new Map<string, ReturnType<typeof splitQuantity>>();
 
-function entryFromText(
-  base: Omit<
-    DiaryEntryInput,
-    'text' | 'foodText' | 'quantityText' | 'quantity' | 'quantityUnreadable' | 'flags'
-  >,
+/** The name of one entry: its line, and its place on the line when the line names several foods. */
+export function entryKey(e: Pick<DiaryEntryInput, 'line' | 'part'>): string {
+  return e.part ? `${e.line}.${e.part}` : String(e.line);
+}
+
+type EntryBase = Omit<
+  DiaryEntryInput,
+  'text' | 'foodText' | 'quantityText' | 'quantity' | 'quantityUnreadable' | 'flags'
+>;
+
+/** One food of a line: its quantity is the CSV cell (first food only) or read from its words. */
+function partEntry(
+  base: EntryBase,
   foodCell: string,
   quantityCell: string,
   flags: string[],
 ): DiaryEntryInput {
-  const text = [quantityCell, foodCell].filter(Boolean).join(' ');
   if (quantityCell.trim()) {
     const q = parseQuantity(quantityCell);
     if (!q.ok)
@@ -513,15 +533,55 @@ function entryFromText(
     splitCache.set(foodCell, split);
   }
   if (split.vague) flags.push(`quantity '${split.vague}' gives no size`);
+  if (split.negative)
+    flags.push(
+      `the amount '${split.negative}' is negative: not counted until the reviewer enters the amount`,
+    );
   return {
     ...base,
-    text: text.trim(),
+    text: foodCell.trim(),
     foodText: split.foodText,
-    quantityText: split.quantity?.text ?? split.vague ?? null,
+    quantityText: split.quantity?.text ?? split.vague ?? split.negative ?? null,
     quantity: split.quantity,
-    quantityUnreadable: split.vague !== undefined,
+    quantityUnreadable: split.vague !== undefined || split.negative !== undefined,
+    ...(split.negative ? { negativeAmount: split.negative } : {}),
     flags,
   };
+}
+
+/**
+ * The entries of one line: one per food the line names (see split-foods.ts), each with its own
+ * quantity. A CSV quantity cell belongs to the first food; the others read their own words.
+ */
+function entriesFromText(
+  base: EntryBase,
+  foodCell: string,
+  quantityCell: string,
+  flags: string[],
+): DiaryEntryInput[] {
+  const foods = splitFoodParts(foodCell);
+  if (foods.length === 1) return [partEntry(base, foodCell, quantityCell, flags)];
+  return foods.map(({ text: food, added }, part) => {
+    const own = [
+      ...flags,
+      `food ${part + 1} of ${foods.length} on line ${base.line} ('${foodCell.trim().slice(0, 120)}')`,
+    ];
+    // The barcode and ingredient cells describe one product: the first food's.
+    const first = part === 0;
+    return partEntry(
+      {
+        ...base,
+        part,
+        partsOnLine: foods.length,
+        ...(added ? { addedTo: true } : {}),
+        barcode: first ? base.barcode : null,
+        ingredients: first ? base.ingredients : null,
+      },
+      food,
+      part === 0 ? quantityCell : '',
+      own,
+    );
+  });
 }
 
 function readCsv(text: string, opts: ReadOptions): DiaryReadResult {
@@ -614,7 +674,7 @@ function readCsv(text: string, opts: ReadOptions): DiaryReadResult {
     if (barcode && !/^\d{6,14}$/.test(barcode))
       flags.push(`barcode '${barcode.slice(0, 30)}' is not 6-14 digits; ignored`);
     entries.push(
-      entryFromText(
+      ...entriesFromText(
         {
           line: r.line,
           date: day.date,
@@ -806,7 +866,7 @@ function readText(text: string, opts: ReadOptions): DiaryReadResult {
       continue;
     }
     if (entries.length >= DIARY_LIMITS.maxEntries) return tooMany();
-    above = entryFromText(
+    const parts = entriesFromText(
       {
         line,
         date: day.date,
@@ -820,7 +880,8 @@ function readText(text: string, opts: ReadOptions): DiaryReadResult {
       '',
       flags,
     );
-    entries.push(above);
+    entries.push(...parts);
+    above = parts[parts.length - 1];
   }
   if (entries.length === 0) {
     return {

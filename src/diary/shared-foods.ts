@@ -21,6 +21,8 @@ export interface SharedCache {
   swaps: Map<string, Promise<DiarySwap | null>>;
   /** Foods by id, as search hits and swap candidates load them. */
   foods: Map<number, Food>;
+  /** Spelling corrections of diary words, by the words (FoodService.correctWords). */
+  spelling: Map<string, Promise<{ words: string[]; corrections: { from: string; to: string }[] }>>;
   /** Each kind's names in memory, once built (null when too many or not buildable). */
   names: Map<FoodKind, NameSlot>;
 }
@@ -141,12 +143,20 @@ export async function sharedFoods(db: Db): Promise<SharedCache> {
   const stamp = s.rows[0]?.stamp ?? '';
   let shared = sharedSearches.get(db.sqlite);
   if (!shared || shared.stamp !== stamp) {
-    shared = { stamp, results: new Map(), swaps: new Map(), foods: new Map(), names: new Map() };
+    shared = {
+      stamp,
+      results: new Map(),
+      swaps: new Map(),
+      foods: new Map(),
+      names: new Map(),
+      spelling: new Map(),
+    };
     sharedSearches.set(db.sqlite, shared);
   } else if (shared.results.size > MAX_SHARED) {
     // Bounded: the remembered searches and swaps start again; foods and names stay.
     shared.results = new Map();
     shared.swaps = new Map();
+    shared.spelling = new Map();
   }
   return shared;
 }

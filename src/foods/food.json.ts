@@ -1,5 +1,6 @@
 import type { Food } from './food.js';
 import { phosphorusProteinRatio } from './search.js';
+import { typicalUnit } from './unit-weights.js';
 
 /** A search hit in the JSON contract: `{id, source, code, name, group, kind, per100g, ratio}`. */
 export function toFoodHit(food: Food) {
@@ -48,5 +49,7 @@ export function toFoodJson(food: Food) {
     })),
     ingredients: food.ingredients,
     ingredientsLanguage: food.ingredientsLanguage,
+    /** For a food whose table gives grams only: a typical unit weight with its source, or null. */
+    typicalUnit: food.portions.length === 0 ? typicalUnit(food.name) : null,
   };
 }

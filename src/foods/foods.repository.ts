@@ -339,6 +339,40 @@ export class FoodRepository {
     });
   }
 
+  /** The object caches of this database are kept under (one per Kysely instance). */
+  cacheKey(): object {
+    return this.db;
+  }
+
+  /** Changes whenever a food table is imported, replaced or removed. */
+  async tablesStamp(): Promise<string> {
+    const s = await sql<{
+      stamp: string;
+    }>`select coalesce(max(id), 0) || ':' || count(*) || ':' || coalesce(sum(food_count), 0) as stamp from food_source`.execute(
+      this.db,
+    );
+    return s.rows[0]?.stamp ?? '';
+  }
+
+  /**
+   * The FTS index's own terms of food names and alternate names with how many foods carry each
+   * (fts5vocab over food_fts), for spelling tolerance.
+   */
+  async spellingTerms(): Promise<{ term: string; docs: number }[]> {
+    return this.db.connection().execute(async (conn) => {
+      await sql`create virtual table if not exists temp.food_terms using fts5vocab(main, food_fts, 'col')`.execute(
+        conn,
+      );
+      const rows = await sql<{
+        term: string;
+        docs: number;
+      }>`select term, sum(doc) as docs from temp.food_terms where col in ('name', 'alt_names') group by term`.execute(
+        conn,
+      );
+      return rows.rows;
+    });
+  }
+
   async listSources() {
     return this.db
       .selectFrom('food_source')

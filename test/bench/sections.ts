@@ -8,6 +8,7 @@ import { loadBench } from './load.js';
 import { handoutsBench } from './handouts.js';
 import { diaryBench } from './diary.js';
 import { startupBench } from './startup.js';
+import { searchListBench } from './search-list.js';
 
 /** One benchmark section; each area adds its own file and registers it here. */
 export interface BenchSection {
@@ -26,3 +27,4 @@ sections.push(handoutsBench);
 sections.push(diaryBench);
 sections.push(searchBench);
 sections.push(startupBench);
+sections.push(searchListBench);

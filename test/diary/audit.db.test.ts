@@ -187,18 +187,27 @@ describe(`invented demo week (test/fixtures/diary/demo-week.txt) against USDA SR
     expect(entry(demo, 53).grams).toBe(72.5);
   });
 
-  it.skipIf(skip)('"a handful of grapes" is flagged and a default portion is assumed', () => {
+  it.skipIf(skip)('"a handful of grapes" is half a cup of grapes, stated as assumed', () => {
     const g = entry(demo, 30);
     expect(g.quantityAssumed).toBe(true);
-    expect(g.findings.join(' ')).toContain("quantity 'a handful of' gives no size");
+    // USDA SR28 NDB 09132 Grapes, red or green: 1 cup = 151 g; a handful taken as half a cup
+    // (common practice, no source): 0.5 x 151 = 75.5 g
+    expect(g.grams).toBe(75.5);
+    expect(g.quantityNote).toContain('assumed (no published figure)');
   });
 
   it.skipIf(skip)(
-    'a second food after "with" is not counted, and the finding says so',
+    'a second food after "with" is its own entry, counted with its smallest measure',
     async () => {
       const r = (await service.run({ text: '2 slices toast with margarine\n' })).report;
+      expect(r.entries.map((e) => [e.line, e.part, e.key])).toEqual([
+        [1, 0, '1'],
+        [1, 1, '1.1'],
+      ]);
       expect(r.entries[0]?.match?.name).toMatch(/^Bread, white/);
-      expect(r.entries[0]?.findings.join(' ')).toContain("'margarine' is not counted");
+      expect(r.entries[1]?.match?.name).toMatch(/^Margarine/);
+      expect(r.entries[1]?.quantityNote).toContain('smallest measure');
+      expect(r.entries[1]?.counted).toBe(true);
     },
   );
 

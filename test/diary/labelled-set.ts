@@ -41,6 +41,7 @@ export function matcherFor(db: Db): DiaryMatcher {
     search: (q) => service.search(q),
     findIdsByCode: (code) => repo.findIdsByCode(code),
     getFoods: (ids) => repo.getFoods(ids),
+    correctWords: (words) => service.correctWords(words),
   });
 }
 

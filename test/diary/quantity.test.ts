@@ -117,7 +117,7 @@ describe('parseQuantity: units', () => {
     expect(v.measureText).toBe('large');
   });
 
-  it.each(['', 'handful', 'some', 'lots!!', '0 g', '-', '2 cups and a bit more than that'])(
+  it.each(['', 'some', 'lots!!', '0 g', '-', '-100 g', '2 cups and a bit more than that'])(
     'flags %j as not understood',
     (text) => {
       const r = parseQuantity(text);
@@ -234,5 +234,51 @@ describe('quantityToGrams (measures: USDA SR28 WEIGHT.txt; unit definitions: NIS
   it('a cup of a food with no measures is 236.6 ml at 1 g/ml', () => {
     expect(ML_PER_CUP).toBeCloseTo(236.5882365, 7);
     expect(quantityToGrams(q('1 cup'), noMeasures).grams).toBe(236.6);
+  });
+});
+
+describe('handfuls, negative amounts, servings in grams and typical unit weights', () => {
+  it.each(['2 handfuls', '2 handfulls', '2 handfull', '2 puñados', '2 poignées'])(
+    '%s is 2 of the unit "handful"',
+    (text) => {
+      expect(q(text)).toMatchObject({ amount: 2, unit: 'handful' });
+    },
+  );
+
+  it('a negative amount is called negative, never "no amount"', () => {
+    expect(splitQuantity('-100 g rice')).toEqual({
+      quantity: null,
+      foodText: 'rice',
+      negative: '-100 g',
+    });
+    const r = parseQuantity('-2 slices');
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.issues[0]).toContain('negative');
+  });
+
+  it('"grams 1 serving" is one serving of that weight, not items of 1 g', () => {
+    // USDA SR28 NDB 07029 Ham, sliced, regular: "grams 1 serving" Amount 56, 56 g; "slice" 28 g
+    const ham: MeasuredFood = {
+      name: 'Ham, sliced, regular (approximately 11% fat)',
+      servingG: null,
+      portions: [{ id: 1, amount: 56, description: 'grams 1 serving', grams: 56 }],
+    };
+    // no slice measure in this copy: the typical slice of ham (28 g, NDB 07029) x 2 = 56 g
+    expect(quantityToGrams(q('2 slices'), ham)).toMatchObject({
+      grams: 56,
+      method: 'typical-unit',
+      assumed: true,
+    });
+    // no amount written: one serving of 56 g, not 1 g
+    expect(quantityToGrams(null, ham).grams).toBe(56);
+  });
+
+  it('a food with grams only gets the typical unit weight, with its source', () => {
+    // an IFCT 2017 style food: no household measures (invented copy of the name)
+    const egg: MeasuredFood = { name: 'Egg, hen, whole, boiled', servingG: null, portions: [] };
+    // USDA SR28 NDB 01123 Egg, whole, raw, fresh: 1 large = 50 g; 2 x 50 = 100 g
+    const r = quantityToGrams(q('2'), egg);
+    expect(r).toMatchObject({ grams: 100, method: 'typical-unit', assumed: true });
+    expect(r.note).toContain('USDA SR28 NDB 01123');
   });
 });

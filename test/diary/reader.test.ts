@@ -81,12 +81,19 @@ describe('readDiary: free text with day and occasion headings (invented demo dia
       [3, 'Tuesday', 'breakfast', null, 'white toast', 2],
       [4, 'Tuesday', 'breakfast', null, 'margarine', 1],
       [5, 'Tuesday', 'lunch', null, 'ham sandwich', undefined],
-      [8, '2024-03-05', 'breakfast', null, 'toast with margarine', 2],
+      // one entry per food of the line, each with its own amount
+      [8, '2024-03-05', 'breakfast', null, 'toast', 2],
+      [8, '2024-03-05', 'breakfast', null, 'margarine', undefined],
       [10, '2024-03-05', 'dinner', '20:30', 'rice', 1],
       [11, '2024-03-05', 'dinner', '20:30', 'Sunday roast', undefined],
-      [12, '2024-03-05', 'tea', null, 'tea with milk', 1],
+      [12, '2024-03-05', 'tea', null, 'tea', 1],
+      [12, '2024-03-05', 'tea', null, 'milk', undefined],
     ]);
     expect(d.entries[3]?.date).toBe('2024-03-05');
+    expect(d.entries.filter((e) => e.line === 8).map((e) => [e.part, e.addedTo])).toEqual([
+      [0, undefined],
+      [1, true],
+    ]);
     expect(d.skipped).toEqual([]);
   });
 });
@@ -111,8 +118,9 @@ describe('readDiary: CSV with the documented columns', () => {
     expect(d.entries[1]?.quantity?.container).toEqual({ amount: 355, unit: 'ml' });
     expect(d.entries[2]?.barcode).toBe('0000000000017');
     expect(d.entries[2]?.ingredients).toContain('sodium aluminum phosphate');
-    expect(d.entries[3]?.quantityUnreadable).toBe(true);
-    expect(d.entries[3]?.flags[0]).toContain("quantity 'handful' not understood");
+    // "handful" is read as a unit; its grams come from the food class (handful.ts)
+    expect(d.entries[3]?.quantityUnreadable).toBe(false);
+    expect(d.entries[3]?.quantity?.unit).toBe('handful');
   });
 
   it('accepts semicolons and Spanish headers', () => {

@@ -27,6 +27,7 @@ import type {
   TargetCheck,
 } from '../summary-types.js';
 import { attachTypeahead, type FoodHit } from '../typeahead.js';
+import type { TypicalUnit } from '../../../foods/unit-weights.js';
 
 initChrome();
 
@@ -42,6 +43,8 @@ interface FoodInfo {
   /** Raw entries list the preparation methods that apply; cooked or unknown ones none. */
   cookedState?: 'raw' | 'cooked' | 'unknown';
   preparations?: { method: string; label: string }[];
+  /** A typical unit weight (with its source) when the table gives grams only. */
+  typicalUnit?: TypicalUnit | null;
 }
 
 const planId = pageParams().id ?? '';
@@ -143,7 +146,11 @@ function fillAdderSelects(): void {
 
 function chosenMeasure(): Measure | null {
   if (!picked || measureSel.value === 'g') return null;
-  return foods.get(picked.id)?.portions.find((m) => String(m.id) === measureSel.value) ?? null;
+  const food = foods.get(picked.id);
+  // A typical unit (no measure of the table): grams only are saved, worked out from it.
+  const t = food?.typicalUnit;
+  if (measureSel.value === 'typical' && t) return { id: -1, description: t.unit, grams: t.grams };
+  return food?.portions.find((m) => String(m.id) === measureSel.value) ?? null;
 }
 
 function updatePickGrams(): void {
@@ -165,14 +172,23 @@ async function openPicker(hit: FoodHit): Promise<void> {
   await loadFood(hit.id, hit.name);
   if (picked !== hit) return;
   const measures = foods.get(hit.id)?.portions ?? [];
+  const typical = measures.length === 0 ? foods.get(hit.id)?.typicalUnit : null;
   fill(
     measureSel,
     measures.map((m) => h('option', { value: String(m.id) }, measureText(m))),
-    h('option', { value: 'g' }, 'grams'),
+    typical
+      ? h(
+          'option',
+          { value: 'typical' },
+          `${typical.unit}${typical.size ? `, ${typical.size}` : ''} (typical ${typical.grams} g each: ${typical.source})`,
+        )
+      : null,
+    // A table with grams only: the box says so, so 2 means 2 g knowingly.
+    h('option', { value: 'g' }, measures.length ? 'grams' : 'g (this food table gives grams only)'),
   );
   // A household measure is offered first when the table has one: it is what patients say.
-  measureSel.value = measures[0] ? String(measures[0].id) : 'g';
-  amountInput.value = measures[0] ? '1' : '100';
+  measureSel.value = measures[0] ? String(measures[0].id) : typical ? 'typical' : 'g';
+  amountInput.value = measures[0] || typical ? '1' : '100';
   picker.hidden = false;
   updatePickGrams();
   amountInput.focus();
@@ -200,9 +216,10 @@ function addPicked(): void {
   const item: DraftItem = {
     foodId: picked.id,
     grams: check.grams,
-    measure: measure
-      ? { portionId: measure.id, count: amount, description: measure.description }
-      : null,
+    measure:
+      measure && measure.id > 0
+        ? { portionId: measure.id, count: amount, description: measure.description }
+        : null,
   };
   const occName = draft.days[day]?.occasions[occ]?.name ?? '';
   say('adder-status', `Added ${picked.name}, ${check.grams} g, to ${occName}.`, 'ok');
@@ -1113,6 +1130,7 @@ async function loadFood(id: number, name?: string): Promise<void> {
       portions: f.portions,
       cookedState: f.cookedState ?? 'unknown',
       preparations: f.preparations ?? [],
+      typicalUnit: f.typicalUnit ?? null,
     });
   } catch {
     foods.set(id, { id, name: name ?? `food ${id}`, portions: [] });

@@ -74,7 +74,7 @@ function renderDays(a: Audit): void {
                   h(
                     'div',
                     { class: 'small muted' },
-                    `${d.entryCount} entries, ${d.unmatchedCount} unmatched`,
+                    `${d.entryCount} entries, ${d.unmatchedCount} unmatched, ${d.reviewCount ?? 0} waiting for review`,
                   ),
                 ),
                 h('td', { class: 'n num' }, mg(d.nutrients.phosphorusMg)),
@@ -138,6 +138,39 @@ function renderDayExtras(a: Audit): void {
   box.append(h('p', { class: 'source' }, a.caution));
 }
 
+/** "line 4", or "line 4, food 2" for the second food of a line. */
+function entryName(e: Entry): string {
+  return e.part > 0 ? `line ${e.line}, food ${e.part + 1}` : `line ${e.line}`;
+}
+
+/** The amount boxes of the entries on screen, by entry key. */
+const amounts = new Map<string, HTMLInputElement>();
+
+/** Entries left out of the totals until the reviewer confirms them: the list to work through. */
+function renderReview(a: Audit): void {
+  const box = byId('diary-review');
+  const items = a.review ?? [];
+  fill(
+    box,
+    items.length === 0
+      ? h('p', { class: 'muted', 'data-testid': 'review-empty' }, 'Nothing waits for review.')
+      : h(
+          'ul',
+          { class: 'swap-list' },
+          items.map((r) => {
+            const e = a.entries.find((x) => x.key === r.key);
+            return h(
+              'li',
+              { 'data-review-key': r.key },
+              h('strong', {}, `${e ? entryName(e) : `line ${r.line}`}: ${r.text}`),
+              e?.match ? ` → ${e.match.name}` : null,
+              h('div', { class: 'small' }, r.reasons.join('; ')),
+            );
+          }),
+        ),
+  );
+}
+
 function fixer(e: Entry, index: number): HTMLElement {
   const inputId = `fix-${index}`;
   const listId = `fix-${index}-list`;
@@ -149,7 +182,7 @@ function fixer(e: Entry, index: number): HTMLElement {
     'aria-expanded': 'false',
     'aria-controls': listId,
     autocomplete: 'off',
-    'aria-label': `Change the match for line ${e.line}`,
+    'aria-label': `Change the match for ${entryName(e)}`,
   });
   const list = h('ul', {
     id: listId,
@@ -159,6 +192,15 @@ function fixer(e: Entry, index: number): HTMLElement {
     'aria-label': 'Matching foods',
   });
   const others = e.candidates;
+  const amount = h('input', {
+    id: `amount-${index}`,
+    type: 'text',
+    class: 'entry-amount',
+    autocomplete: 'off',
+    placeholder: e.grams === null ? 'e.g. 100 g' : 'new amount',
+    'aria-label': `Amount eaten for ${entryName(e)} (leave empty to keep the diary's amount)`,
+  });
+  amounts.set(e.key, amount);
   const wrap = h(
     'div',
     { class: 'entry-fix' },
@@ -168,17 +210,18 @@ function fixer(e: Entry, index: number): HTMLElement {
           {
             type: 'button',
             class: 'btn btn-small',
-            'aria-label': `Confirm the match for line ${e.line}`,
+            'aria-label': `Confirm the match for ${entryName(e)}`,
             onclick: () => void setMatch(e, e.match!.foodId, 'confirm'),
           },
           'Confirm',
         )
       : null,
+    amount,
     others.length
       ? h(
           'select',
           {
-            'aria-label': `Runner-up foods for line ${e.line}`,
+            'aria-label': `Runner-up foods for ${entryName(e)}`,
             onchange: (ev: Event) => {
               const v = (ev.target as HTMLSelectElement).value;
               if (v) void setMatch(e, Number(v), 'change');
@@ -224,8 +267,8 @@ function renderEntries(a: Audit): void {
         a.entries.map((e, i) =>
           h(
             'tr',
-            { 'data-line': String(e.line) },
-            h('td', { class: 'num' }, String(e.line)),
+            { 'data-line': String(e.line), 'data-key': e.key },
+            h('td', { class: 'num' }, e.part > 0 ? `${e.line}.${e.part + 1}` : String(e.line)),
             h('td', {}, e.text),
             h(
               'td',
@@ -268,6 +311,13 @@ function renderEntries(a: Audit): void {
             h(
               'td',
               {},
+              e.review.length > 0
+                ? h(
+                    'span',
+                    { class: 'flag flag-review', 'data-testid': 'awaiting-review' },
+                    'awaiting review: not counted',
+                  )
+                : null,
               e.hidden ? h('span', { class: 'flag flag-hidden' }, 'hidden additive') : null,
               (e.additivePhosphorusMg ?? 0) > 0
                 ? h(
@@ -303,6 +353,8 @@ function renderEntries(a: Audit): void {
 
 function render(a: Audit): void {
   audit = a;
+  amounts.clear();
+  renderReview(a);
   renderDays(a);
   renderDayExtras(a);
   renderEntries(a);
@@ -316,22 +368,27 @@ function render(a: Audit): void {
 
 async function setMatch(e: Entry, foodId: number, how: 'confirm' | 'change'): Promise<void> {
   if (!audit) return;
-  say(
-    'diary-status',
-    how === 'confirm' ? `Confirming line ${e.line}…` : `Changing the match of line ${e.line}…`,
-  );
+  const name = entryName(e);
+  say('diary-status', how === 'confirm' ? `Confirming ${name}…` : `Changing the match of ${name}…`);
+  const quantity = amounts.get(e.key)?.value.trim() ?? '';
   try {
     const next = await api<Audit>(
       'POST',
       `${endpoints.diaryAudit(auditId(audit))}/entries/${e.line}/match`,
-      { foodId, action: how },
+      {
+        foodId,
+        action: how,
+        ...(e.part > 0 ? { part: e.part } : {}),
+        ...(quantity ? { quantity } : {}),
+      },
     );
     render(next);
+    const upper = name.charAt(0).toUpperCase() + name.slice(1);
     say(
       'diary-status',
       how === 'confirm'
-        ? `Line ${e.line} confirmed; remembered for this clinic.`
-        : `Line ${e.line} now matches a new food; remembered for this clinic.`,
+        ? `${upper} confirmed; remembered for this clinic.`
+        : `${upper} now matches a new food; remembered for this clinic.`,
       'ok',
     );
   } catch (err) {
@@ -366,7 +423,7 @@ byId<HTMLFormElement>('diary-form').addEventListener('submit', (ev) => {
       render(a);
       say(
         'diary-status',
-        `${a.entries.length} entries read, ${a.unmatched.length} unmatched.`,
+        `${a.entries.length} entries read, ${a.unmatched.length} unmatched, ${a.review.length} waiting for review.`,
         'ok',
       );
     })
