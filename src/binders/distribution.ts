@@ -29,7 +29,8 @@ export type DisagreementCode =
   | 'no-occasion-over-threshold'
   | 'meal-under-threshold'
   | 'calcium-from-binders-over-limit'
-  | 'calcium-total-over-limit';
+  | 'calcium-total-over-limit'
+  | 'calcium-binder-with-high-serum-calcium';
 
 export interface Disagreement {
   code: DisagreementCode;
@@ -154,15 +155,41 @@ function spreadByLoad(
 }
 const r2 = (x: number) => Math.round(x * 100) / 100;
 
+/** Calcium limits for the stage (mg/day; null = none) and where they come from. */
+export interface CalciumLimits {
+  fromBindersMaxMg: number | null;
+  totalMaxMg: number | null;
+  source: string;
+}
+
+export const KDOQI_2003_CALCIUM_CHECK: CalciumLimits = {
+  ...KDOQI_2003_CALCIUM_LIMITS,
+  source: 'KDOQI 2003 Guideline 5',
+};
+
+/**
+ * KDOQI 2003 Guideline 5: no calcium-based binder when corrected serum calcium is above
+ * 10.2 mg/dL (2.54 mmol/L).
+ */
+export const CALCIUM_BINDER_MAX_SERUM_MG_PER_DL = 10.2;
+
+export interface CalciumContext {
+  limits?: CalciumLimits;
+  /** Latest serum calcium, albumin-corrected when albumin exists, mg/dL. */
+  latestCalcium?: { mgPerDl: number; corrected: boolean; date: string } | null;
+}
+
 /**
  * Spreads one day's prescribed binder units over its occasions (pure; no dose is invented).
- * `dietCalciumMg` is the day's calcium from food, for the KDOQI 2003 total-calcium check.
+ * `dietCalciumMg` is the day's calcium from food, for the total-calcium check against the
+ * stage's limits (KDOQI 2003 Guideline 5 when none are given).
  */
 export function distributeBinder(
   prescription: BinderPrescription,
   occasions: readonly OccasionLoad[],
   thresholds: BinderThresholds,
   dietCalciumMg: number,
+  calcium: CalciumContext = {},
 ): DayBinderSchedule {
   const info = BINDER_CATALOGUE[prescription.ingredient];
   const minMg = thresholds.minAbsorbableMgPerOccasion;
@@ -242,21 +269,7 @@ export function distributeBinder(
     prescribedUnits *
     elementalCalciumMgPerUnit(prescription.ingredient, prescription.unitStrengthMg);
   const caTotal = caFromBinders + dietCalciumMg;
-  if (caFromBinders > KDOQI_2003_CALCIUM_LIMITS.fromBindersMaxMg) {
-    disagreements.push({
-      code: 'calcium-from-binders-over-limit',
-      occasion: null,
-      message: `Elemental calcium from the binder is ${r0(caFromBinders)} mg/day, over the KDOQI 2003 limit of ${KDOQI_2003_CALCIUM_LIMITS.fromBindersMaxMg} mg/day: for the care team to review.`,
-    });
-  }
-  if (caFromBinders > 0 && caTotal > KDOQI_2003_CALCIUM_LIMITS.totalMaxMg) {
-    disagreements.push({
-      code: 'calcium-total-over-limit',
-      occasion: null,
-      message: `Elemental calcium from binder and diet is ${r0(caTotal)} mg/day, over the KDOQI 2003 limit of ${KDOQI_2003_CALCIUM_LIMITS.totalMaxMg} mg/day: for the care team to review.`,
-    });
-  }
-
+  disagreements.push(...calciumDisagreements(caFromBinders, caTotal, calcium));
   return {
     prescribedUnits,
     distributedUnits,
@@ -274,4 +287,33 @@ export function distributeBinder(
     elementalCalciumMgTotal: r2(caTotal),
     disagreements,
   };
+}
+
+function calciumDisagreements(
+  caFromBinders: number,
+  caTotal: number,
+  calcium: CalciumContext,
+): Disagreement[] {
+  const limits = calcium.limits ?? KDOQI_2003_CALCIUM_CHECK;
+  const out: Disagreement[] = [];
+  if (limits.fromBindersMaxMg !== null && caFromBinders > limits.fromBindersMaxMg)
+    out.push({
+      code: 'calcium-from-binders-over-limit',
+      occasion: null,
+      message: `Elemental calcium from the binder is ${r0(caFromBinders)} mg/day, over the ${limits.source} limit of ${limits.fromBindersMaxMg} mg/day: for the care team to review.`,
+    });
+  if (caFromBinders > 0 && limits.totalMaxMg !== null && caTotal > limits.totalMaxMg)
+    out.push({
+      code: 'calcium-total-over-limit',
+      occasion: null,
+      message: `Elemental calcium from binder and diet is ${r0(caTotal)} mg/day, over the ${limits.source} limit of ${limits.totalMaxMg} mg/day: for the care team to review.`,
+    });
+  const serum = calcium.latestCalcium;
+  if (caFromBinders > 0 && serum && serum.mgPerDl > CALCIUM_BINDER_MAX_SERUM_MG_PER_DL)
+    out.push({
+      code: 'calcium-binder-with-high-serum-calcium',
+      occasion: null,
+      message: `Latest ${serum.corrected ? 'albumin-corrected ' : ''}serum calcium ${serum.mgPerDl} mg/dL (${serum.date}) is above ${CALCIUM_BINDER_MAX_SERUM_MG_PER_DL} mg/dL, where KDOQI 2003 Guideline 5 advises against calcium-based binders: for the prescriber to review.`,
+    });
+  return out;
 }

@@ -101,7 +101,7 @@ export function dayKey(e: Pick<DiaryEntryInput, 'date' | 'dayLabel'>): string {
 
 /** Targets for an audit without a patient: none set, said so plainly. */
 export function unsetTargets(): Targets {
-  const none = (unit: 'g/day' | 'kcal/day' | 'mg/day') => ({
+  const none = (unit: 'g/day' | 'kcal/day' | 'mg/day' | 'mL/day') => ({
     min: null,
     max: null,
     unit,
@@ -117,6 +117,8 @@ export function unsetTargets(): Targets {
     sodiumMg: none('mg/day'),
     phosphorusMg: none('mg/day'),
     potassiumMg: none('mg/day'),
+    calciumMg: none('mg/day'),
+    fluidMl: none('mL/day'),
   };
 }
 

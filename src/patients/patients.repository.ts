@@ -37,6 +37,8 @@ export function rowToPatient(row: PatientRow): Patient {
     labs: withConvertedLabs(parseJson<LabResultInput[]>(row.labs_json, [])),
     binder: parseJson<BinderPrescription | null>(row.binder_json, null),
     targetOverrides: parseJson<TargetOverrides>(row.target_overrides_json, {}),
+    urineOutputMlPerDay: row.urine_output_ml_per_day ?? null,
+    pdDialysateGlucoseGPerDay: row.pd_glucose_g_per_day ?? null,
     isDemo: row.is_demo === 1,
     createdAt: row.created_at,
     updatedAt: row.updated_at,
@@ -55,6 +57,8 @@ function toColumns(p: PatientInput) {
     labs_json: JSON.stringify(p.labs),
     binder_json: p.binder === null ? null : JSON.stringify(p.binder),
     target_overrides_json: JSON.stringify(p.targetOverrides),
+    urine_output_ml_per_day: p.urineOutputMlPerDay ?? null,
+    pd_glucose_g_per_day: p.pdDialysateGlucoseGPerDay ?? null,
   };
 }
 

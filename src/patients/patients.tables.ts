@@ -12,6 +12,8 @@ export interface PatientTable {
   labs_json: Generated<string>;
   binder_json: string | null;
   target_overrides_json: Generated<string>;
+  urine_output_ml_per_day: number | null;
+  pd_glucose_g_per_day: number | null;
   is_demo: Generated<number>;
   created_at: string;
   updated_at: string;

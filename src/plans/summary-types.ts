@@ -2,6 +2,7 @@ import type { BinderPrescription } from '../binders/binder.js';
 import type { Disagreement } from '../binders/distribution.js';
 import type { SpacingNote } from '../binders/catalogue.js';
 import type { AbsorptionFractions } from '../phosphorus/absorption.js';
+import type { LatestLabs } from '../patients/labs.js';
 import type { CkdStage, Dialysis } from '../patients/patient.js';
 import type { TargetKey, Targets } from '../patients/targets.js';
 import type { Thresholds } from './plan-settings.js';
@@ -13,6 +14,8 @@ export interface VersionContext {
   binder: BinderPrescription | null;
   absorption: AbsorptionFractions;
   thresholds: Thresholds;
+  /** Latest phosphate, calcium and albumin at save time (absent in versions saved before). */
+  labs?: LatestLabs;
 }
 
 /** The settings the summary reads. */

@@ -65,14 +65,28 @@ const itemSchema = z.object({
 const targetSchema = z.object({
   min: n,
   max: n,
-  unit: z.enum(['g/day', 'kcal/day', 'mg/day']),
+  unit: z.enum(['g/day', 'kcal/day', 'mg/day', 'mL/day']),
   perKg: z.object({ min: z.number(), max: z.number(), unit: z.string() }).nullable(),
   setBy: z.enum(['default', 'dietitian', 'unset']),
   source: z.string(),
   defaultValue: z.object({ min: n, max: n }).nullable(),
   note: z.string().nullable(),
+  alongside: z
+    .object({ min: z.number(), max: z.number(), perKg: z.number(), source: z.string() })
+    .nullable()
+    .optional(),
+  fromBindersMaxMg: n.optional(),
+  unsetAttention: z.string().nullable().optional(),
 });
-const targetKey = z.enum(['proteinG', 'energyKcal', 'sodiumMg', 'phosphorusMg', 'potassiumMg']);
+const targetKey = z.enum([
+  'proteinG',
+  'energyKcal',
+  'sodiumMg',
+  'phosphorusMg',
+  'potassiumMg',
+  'calciumMg',
+  'fluidMl',
+]);
 
 const statusSchema = z.object({
   level: z.enum(['on-target', 'attention']),
@@ -178,7 +192,8 @@ export const planSummarySchema = z.object({
         }),
       ),
       nutrients: nutrientsSchema,
-      targets: z.record(targetKey, targetSchema),
+      // Versions saved before a target existed lack it.
+      targets: z.partialRecord(targetKey, targetSchema),
       status: statusSchema,
       topContributors: z.array(contributorSchema),
     }),

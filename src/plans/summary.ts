@@ -5,7 +5,13 @@ import {
   elementalCalciumMgPerUnit,
   pbedGPerUnit,
 } from '../binders/catalogue.js';
-import { ROUNDING_RULE, distributeBinder } from '../binders/distribution.js';
+import {
+  ROUNDING_RULE,
+  distributeBinder,
+  type CalciumContext,
+  type CalciumLimits,
+} from '../binders/distribution.js';
+import type { LatestLabs } from '../patients/labs.js';
 import type { Food } from '../foods/food.js';
 import type { TargetKey, Targets } from '../patients/targets.js';
 import { profileFood, scaleProfile, type PhosphorusProfile } from '../phosphorus/profile.js';
@@ -47,6 +53,8 @@ interface Acc {
   na: number;
   ca: number;
   kcal: number;
+  /** Elemental calcium from the prescribed binder, mg (days only). */
+  binderCa: number;
   missing: Set<NutrientKey>;
 }
 
@@ -61,6 +69,7 @@ const newAcc = (): Acc => ({
   na: 0,
   ca: 0,
   kcal: 0,
+  binderCa: 0,
   missing: new Set(),
 });
 
@@ -75,6 +84,7 @@ function addTo(acc: Acc, from: Acc): void {
   acc.na += from.na;
   acc.ca += from.ca;
   acc.kcal += from.kcal;
+  acc.binderCa += from.binderCa;
   for (const m of from.missing) acc.missing.add(m);
 }
 
@@ -108,15 +118,25 @@ function accToNutrients(a: Acc, divisor = 1): Nutrients {
   };
 }
 
-const TARGET_FIELD: Record<
-  TargetKey,
-  { label: string; unit: string; value: (n: Acc) => number; nutrient: NutrientKey }
+/** Targets a plan's days are checked against (fluid is advice only: foods carry no drink volume). */
+const TARGET_FIELD: Partial<
+  Record<
+    TargetKey,
+    { label: string; unit: string; value: (n: Acc) => number; nutrient: NutrientKey }
+  >
 > = {
   proteinG: { label: 'protein', unit: 'g', value: (a) => a.prot, nutrient: 'proteinG' },
   energyKcal: { label: 'energy', unit: 'kcal', value: (a) => a.kcal, nutrient: 'energyKcal' },
   sodiumMg: { label: 'sodium', unit: 'mg', value: (a) => a.na, nutrient: 'sodiumMg' },
   phosphorusMg: { label: 'phosphorus', unit: 'mg', value: (a) => a.p, nutrient: 'phosphorusMg' },
   potassiumMg: { label: 'potassium', unit: 'mg', value: (a) => a.k, nutrient: 'potassiumMg' },
+  // Diet calcium plus the elemental calcium of calcium-based binders (KDOQI 2020 6.2.1 counts both).
+  calciumMg: {
+    label: 'calcium (diet and binder)',
+    unit: 'mg',
+    value: (a) => a.ca + a.binderCa,
+    nutrient: 'calciumMg',
+  },
 };
 
 function rangeText(min: number | null, max: number | null, unit: string): string {
@@ -131,7 +151,9 @@ function checkTargets(a: Acc, targets: Targets, divisor = 1): DayStatus {
   const messages: string[] = [];
   for (const key of Object.keys(TARGET_FIELD) as TargetKey[]) {
     const f = TARGET_FIELD[key];
-    const t = targets[key];
+    // Versions saved before a target existed do not carry it: nothing to check.
+    const t = targets[key] as Targets[TargetKey] | undefined;
+    if (!f || !t) continue;
     const value = f.value(a) / divisor;
     const shown = key === 'proteinG' ? r1(value) : Math.round(value);
     const incomplete = a.missing.has(f.nutrient);
@@ -140,6 +162,7 @@ function checkTargets(a: Acc, targets: Targets, divisor = 1): DayStatus {
     if (t.min === null && t.max === null) {
       status = 'not-set';
       message = `${f.label} ${shown} ${f.unit}: no target set`;
+      if (t.unsetAttention) messages.push(t.unsetAttention);
     } else if (t.min !== null && value < t.min) {
       status = 'below';
       message = `${f.label} ${shown} ${f.unit} is below the target ${rangeText(t.min, t.max, f.unit)}`;
@@ -222,8 +245,10 @@ export function summarizePlan(
   targets: Targets,
   settings: SummarySettings,
   binder: BinderPrescription | null = null,
+  labs: LatestLabs | null = null,
 ): PlanSummary {
   const { thresholds, absorption } = settings;
+  const calcium = calciumContext(targets, labs);
   const factsCache = new Map<number, FoodFacts>();
   const factsOf = (foodId: number): FoodFacts => {
     let f = factsCache.get(foodId);
@@ -337,6 +362,7 @@ export function summarizePlan(
       });
       occLoads.push(occAcc.aTyp); // unrounded, for the binder distribution
     }
+    dayAcc.binderCa = binderCalciumMg(binder, day.occasions);
     addTo(planAcc, dayAcc);
     dayAccs.push(dayAcc);
     loadsByDay.push(occLoads);
@@ -373,7 +399,7 @@ export function summarizePlan(
     average: { nutrients: accToNutrients(planAcc, n), status: checkTargets(planAcc, targets, n) },
     topContributors: contributors(planContrib, planAcc.p, thresholds.topContributors),
     flags: { additiveFoods, highRatioFoods },
-    binders: summarizeBinders(binder, days, dayAccs, loadsByDay, settings),
+    binders: summarizeBinders(binder, days, dayAccs, loadsByDay, settings, calcium),
     thresholds,
     caution: SUMMARY_CAUTION,
   };
@@ -385,11 +411,21 @@ function summarizeBinders(
   dayAccs: readonly Acc[],
   loadsByDay: readonly number[][],
   settings: SummarySettings,
+  calcium: CalciumContext,
 ): BinderSummary {
-  const limits = {
-    ...KDOQI_2003_CALCIUM_LIMITS,
-    source: 'KDOQI 2003 (Am J Kidney Dis 2003;42(4 Suppl 3)) Guideline 5',
-  };
+  const stage = calcium.limits ?? null;
+  const limits =
+    stage === null
+      ? {
+          ...KDOQI_2003_CALCIUM_LIMITS,
+          source: 'KDOQI 2003 (Am J Kidney Dis 2003;42(4 Suppl 3)) Guideline 5',
+        }
+      : {
+          // Without a binder-only limit, binder calcium is bounded by the total limit itself.
+          fromBindersMaxMg: stage.fromBindersMaxMg ?? stage.totalMaxMg ?? 0,
+          totalMaxMg: stage.totalMaxMg ?? 0,
+          source: stage.source,
+        };
   const caution =
     'The product spreads the prescribed binder over the meals; it does not set or change the dose. Disagreements are for the prescriber to review.';
   if (!binder) {
@@ -422,6 +458,7 @@ function summarizeBinders(
         highLoadOccasionMg: settings.thresholds.highLoadOccasionMg,
       },
       (dayAccs[di] as Acc).ca,
+      calcium,
     );
     for (const o of s.occasions) {
       perOccasion.push({
@@ -478,5 +515,44 @@ function summarizeBinders(
     elementalCalciumMgPerDay: r1(maxCa),
     limits,
     caution,
+  };
+}
+
+/** Elemental calcium from the prescribed binder on one day, mg (per-meal: units x the meals). */
+function binderCalciumMg(
+  binder: BinderPrescription | null,
+  occasions: readonly { kind: 'meal' | 'snack' }[],
+): number {
+  if (!binder) return 0;
+  const units =
+    binder.schedule === 'per-day'
+      ? binder.units
+      : binder.units * occasions.filter((o) => o.kind === 'meal').length;
+  return units * elementalCalciumMgPerUnit(binder.ingredient, binder.unitStrengthMg);
+}
+
+/** The stage's calcium limits from the calcium target (older versions: KDOQI 2003) and the latest serum calcium. */
+function calciumContext(targets: Targets, labs: LatestLabs | null): CalciumContext {
+  const t = targets.calciumMg as Targets['calciumMg'] | undefined;
+  const source =
+    t?.setBy === 'dietitian'
+      ? "the dietitian's calcium target"
+      : t?.fromBindersMaxMg
+        ? 'KDOQI 2003 Guideline 5'
+        : 'KDOQI 2020 6.2.1 (CKD 3-4, binders included)';
+  const limits: CalciumLimits | undefined =
+    t && t.setBy !== 'unset'
+      ? { fromBindersMaxMg: t.fromBindersMaxMg ?? null, totalMaxMg: t.max, source }
+      : undefined;
+  const ca = labs?.calcium ?? null;
+  return {
+    ...(limits ? { limits } : {}),
+    latestCalcium: ca
+      ? {
+          mgPerDl: ca.correctedMgPerDl ?? ca.mgPerDl,
+          corrected: ca.correctedMgPerDl !== null,
+          date: ca.date,
+        }
+      : null,
   };
 }
