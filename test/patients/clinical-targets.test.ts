@@ -13,7 +13,7 @@ const lab = (analyte: string, value: number, unit: string, date = '2026-11-30') 
   unit,
   date,
 });
-const ckd4 = (labs: TargetInputs['labs']): TargetInputs => ({
+const ckd4 = (labs: NonNullable<TargetInputs['labs']>): TargetInputs => ({
   weightKg: 70,
   ckdStage: '4',
   dialysis: 'none',
@@ -80,7 +80,7 @@ describe('phosphorus default follows the latest phosphate and the stage (KDOQI 2
   });
 
   it('stage 5 uses 5.5 mg/dL: 5.2 does not restrict, 6.0 does; no result leaves it unset', () => {
-    const hd = (labs: TargetInputs['labs']) =>
+    const hd = (labs: NonNullable<TargetInputs['labs']>) =>
       computeTargets({ ...ckd4(labs), ckdStage: '5', dialysis: 'hemodialysis' });
     expect(hd([lab('phosphate', 5.2, 'mg/dL')]).phosphorusMg.setBy).toBe('unset');
     expect(hd([lab('phosphate', 6.0, 'mg/dL')]).phosphorusMg.max).toBe(1000);

@@ -272,7 +272,10 @@ describe('patients and plans over HTTP', () => {
         energyKcal: 'below',
         sodiumMg: 'within',
         phosphorusMg: 'above',
-        potassiumMg: 'not-set',
+        // hemodialysis: at most 2,737 mg offered (EBPG 2007, 70 mmol x 39.098 mg/mmol)
+        potassiumMg: 'within',
+        // diet calcium, no calcium binder in this record: under 2,000 mg (KDOQI 2003 Guideline 5)
+        calciumMg: 'within',
       });
       expect(day.status.level).toBe('attention');
       // one day: the plan average equals the day
