@@ -120,12 +120,21 @@ export interface Contributor {
   flags: { additive: boolean; highRatio: boolean };
 }
 
+export interface DayRatioBand {
+  ratioMgPerG: number;
+  band: string;
+  label: string;
+  note: string;
+}
+
 export interface DaySummary {
   label: string;
   occasions: OccasionSummary[];
   nutrients: Nutrients;
   targets: Targets;
   status: DayStatus;
+  /** The day's P:protein ratio in Noori 2010's whole-diet bands (null without protein). */
+  ratioBand?: DayRatioBand | null;
   topContributors: Contributor[];
 }
 
@@ -183,7 +192,15 @@ export interface PlanSummary {
   topContributors: Contributor[];
   flags: {
     additiveFoods: { foodId: number; name: string; evidence: string[] }[];
-    highRatioFoods: { foodId: number; name: string; phosphorusProteinRatioMgPerG: number }[];
+    highRatioFoods: {
+      foodId: number;
+      name: string;
+      phosphorusProteinRatioMgPerG: number;
+      /** 'absorbable-plant': a plant food judged on absorbable P per g protein; else total. */
+      basis?: 'total' | 'absorbable-plant';
+      /** The value the flag was judged on, mg per g protein. */
+      flaggedValueMgPerG?: number;
+    }[];
   };
   binders: BinderSummary;
   thresholds: Thresholds;

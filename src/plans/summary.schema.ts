@@ -195,6 +195,15 @@ export const planSummarySchema = z.object({
       // Versions saved before a target existed lack it.
       targets: z.partialRecord(targetKey, targetSchema),
       status: statusSchema,
+      ratioBand: z
+        .object({
+          ratioMgPerG: z.number(),
+          band: z.string(),
+          label: z.string(),
+          note: z.string(),
+        })
+        .nullable()
+        .optional(),
       topContributors: z.array(contributorSchema),
     }),
   ),
@@ -205,7 +214,13 @@ export const planSummarySchema = z.object({
       z.object({ foodId: z.number(), name: z.string(), evidence: z.array(z.string()) }),
     ),
     highRatioFoods: z.array(
-      z.object({ foodId: z.number(), name: z.string(), phosphorusProteinRatioMgPerG: z.number() }),
+      z.object({
+        foodId: z.number(),
+        name: z.string(),
+        phosphorusProteinRatioMgPerG: z.number(),
+        basis: z.enum(['total', 'absorbable-plant']).optional(),
+        flaggedValueMgPerG: z.number().optional(),
+      }),
     ),
   }),
   binders: binderSummarySchema,

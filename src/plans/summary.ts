@@ -15,11 +15,18 @@ import type { LatestLabs } from '../patients/labs.js';
 import type { Food } from '../foods/food.js';
 import type { TargetKey, Targets } from '../patients/targets.js';
 import { profileFood, scaleProfile, type PhosphorusProfile } from '../phosphorus/profile.js';
+import {
+  RATIO_BANDS,
+  highRatioFlag,
+  ratioBandFor,
+  type RatioFlagBasis,
+} from '../phosphorus/ratio.js';
 import type { PlanContent } from './plan.js';
 import type {
   BinderSummary,
   Contributor,
   DayStatus,
+  DayRatioBand,
   DaySummary,
   ItemNutrients,
   ItemSummary,
@@ -194,6 +201,8 @@ interface FoodFacts {
   profile: PhosphorusProfile;
   additive: boolean;
   highRatio: boolean;
+  ratioBasis: RatioFlagBasis;
+  ratioValueMgPerG: number | null;
 }
 
 interface ContributorAcc {
@@ -256,14 +265,22 @@ export function summarizePlan(
       const food = foods.get(foodId);
       if (!food) throw new Error(`food ${foodId} missing from the summary's food map`);
       const profile = profileFood(food, absorption);
+      const flag = highRatioFlag(
+        { ...profile, absorbableTypicalMg: profile.absorbableMg?.typical ?? null },
+        food.per100g.proteinG,
+        {
+          highRatioMgPerG: thresholds.highRatioMgPerG,
+          minProteinGPer100g: thresholds.highRatioMinProteinGPer100g,
+          animalOrganicTypical: absorption.animalOrganic.typical,
+        },
+      );
       f = {
         food,
         profile,
         additive: profile.additiveLikely || profile.additiveEvidentFromName,
-        highRatio:
-          profile.ratioMgPerG !== null &&
-          profile.ratioMgPerG >= thresholds.highRatioMgPerG &&
-          (food.per100g.proteinG ?? 0) >= thresholds.highRatioMinProteinGPer100g,
+        highRatio: flag.flagged,
+        ratioBasis: flag.basis,
+        ratioValueMgPerG: flag.valueMgPerG,
       };
       factsCache.set(foodId, f);
     }
@@ -372,6 +389,7 @@ export function summarizePlan(
       nutrients: accToNutrients(dayAcc),
       targets,
       status: checkTargets(dayAcc, targets),
+      ratioBand: dayRatioBand(dayAcc),
       topContributors: contributors(dayContrib, dayAcc.p, Math.min(3, thresholds.topContributors)),
     });
   }
@@ -387,6 +405,8 @@ export function summarizePlan(
         foodId: f.food.id,
         name: f.food.name,
         phosphorusProteinRatioMgPerG: r1(f.profile.ratioMgPerG as number),
+        basis: f.ratioBasis,
+        flaggedValueMgPerG: r1(f.ratioValueMgPerG as number),
       });
   }
 
@@ -555,4 +575,15 @@ function calciumContext(targets: Targets, labs: LatestLabs | null): CalciumConte
         }
       : null,
   };
+}
+
+/**
+ * The day's phosphorus-to-protein ratio in Noori 2010's bands: the evidence was gathered on
+ * whole-diet intakes, so the band belongs to day totals, not to single foods.
+ */
+function dayRatioBand(a: Acc): DayRatioBand | null {
+  if (a.prot <= 0) return null;
+  const ratio = a.p / a.prot;
+  const band = ratioBandFor(ratio, RATIO_BANDS);
+  return { ratioMgPerG: r1(ratio), band: band.id, label: band.label, note: band.note };
 }
