@@ -145,7 +145,7 @@ export type PreparationState = 'ready' | 'raw' | 'dry';
 
 const DRY_RE =
   /\b(dried|dehydrated|powder|powdered|concentrated?|condensed|freeze-dried|dry)\b|\bdry mix\b|\bmix, dry\b/;
-const READY_OVERRIDE_RE = /\bprepared\b|\breconstituted\b|dry[- ]roasted|\bdiluted\b/;
+const READY_OVERRIDE_RE = /\bprepared\b|\breconstituted\b|dry[- ]roasted|dry heat|\bdiluted\b/;
 const RAW_RE = /\b(raw|uncooked|unprepared|unheated)\b/;
 const COOKED_BEFORE_EATING = new Set([
   'meat',
@@ -166,6 +166,12 @@ export function preparationState(food: Pick<Food, 'name' | 'group'>): Preparatio
 
 /** A swap's K or Na per g protein (or per portion) may be at most this share of the original's (common practice, no source). */
 export const SWAP_MAX_POTASSIUM_SODIUM_SHARE = 1.2;
+
+/**
+ * Sodium below which differences are not judged: 5 mg per g protein (20 g protein = 100 mg) or
+ * 20 mg per portion (common practice, no source).
+ */
+const SODIUM_FLOOR: Record<SwapBasis, number> = { 'per-g-protein': 5, 'per-portion': 20 };
 
 export type SwapRejection =
   | 'same-food'
@@ -202,6 +208,8 @@ function originOf(food: Food): Origin {
   return CLASS_ORIGIN[classifyFood(food).foodClass];
 }
 
+const r1 = (x: number) => Math.round(x * 10) / 10;
+
 /** Potassium or sodium of a candidate against the original (share, and a caution when > 20% more or not given). */
 function mineralCheck(
   label: 'potassium' | 'sodium',
@@ -212,18 +220,22 @@ function mineralCheck(
   const o = perBasis(orig.food, orig.basis, orig.food.per100g[key]);
   const v = perBasis(c, orig.basis, c.per100g[key]);
   if (o === null || o <= 0) return { share: null, caution: null };
+  // A food with next to no sodium (unsalted legumes: 0.2 mg per g protein) makes any
+  // percentage huge: below the floor the comparison is against the floor.
+  const floor = label === 'sodium' ? SODIUM_FLOOR[orig.basis] : 0;
   if (v === null)
     return {
       share: null,
       caution: `${label} is not given for this food: check it before offering it.`,
     };
   const share = v / o;
+  const judged = v / Math.max(o, floor);
   const unit = orig.basis === 'per-g-protein' ? 'per g protein' : 'per portion';
   return {
     share: Math.round(share * 1000) / 1000,
     caution:
-      share > SWAP_MAX_POTASSIUM_SODIUM_SHARE
-        ? `${Math.round((share - 1) * 100)}% more ${label} ${unit} than the original: ${label === 'potassium' ? 'check against the potassium target, especially on dialysis' : 'check against the sodium target'}.`
+      judged > SWAP_MAX_POTASSIUM_SODIUM_SHARE
+        ? `${label} ${r1(v)} mg ${unit} against ${r1(o)} mg for the original (more than ${Math.round((SWAP_MAX_POTASSIUM_SODIUM_SHARE - 1) * 100)}% above): ${label === 'potassium' ? 'check against the potassium target, especially on dialysis' : 'check against the sodium target'}.`
         : null,
   };
 }
