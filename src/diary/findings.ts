@@ -3,6 +3,7 @@
  * its evidence and whether the additive is hidden; per day the totals against the targets and the
  * top contributors (through the plan summary, so diary and plan days add up the same way).
  */
+import { clinicalCautions, type ClinicalCaution } from '../plans/cautions.js';
 import type { Food } from '../foods/food.js';
 import type { Targets } from '../patients/targets.js';
 import { guessOccasionKind, type PlanDay } from '../plans/plan.js';
@@ -87,6 +88,8 @@ export interface DiaryReport {
   hiddenAdditiveEntries: number[];
   targetsSource: 'patient' | 'none';
   caution: string;
+  /** Clinical cautions (potassium on dialysis, protein under target, additive variability). */
+  cautions?: ClinicalCaution[];
 }
 
 export const DIARY_CAUTION =
@@ -315,5 +318,11 @@ export function buildDiaryReport(input: BuildInput): Omit<DiaryReport, 'days'> &
     hiddenAdditiveEntries: reports.filter((r) => r.hidden).map((r) => r.line),
     targetsSource: input.targetsSource,
     caution: DIARY_CAUTION,
+    cautions: clinicalCautions({
+      targets: input.targets,
+      proteinBelowTarget: days.some((d) =>
+        d.status.checks.some((c) => c.target === 'proteinG' && c.status === 'below'),
+      ),
+    }),
   };
 }

@@ -61,6 +61,8 @@ export interface HandoutSummary {
     days?: { day: string; distributedUnits: number; prescribedUnits?: number }[];
     elementalCalciumMgPerDay?: number | null;
   } | null;
+  /** The summary's clinical cautions; the handout says those meant for the patient. */
+  cautions?: { code: string }[];
 }
 
 export interface HandoutPatient {

@@ -366,6 +366,7 @@ export function buildHandoutViewModel(
     ),
   ];
 
+  const cautionCodes = new Set((summary.cautions ?? []).map((c) => c.code));
   const value: HandoutViewModel = {
     language,
     languageName: meta.name,
@@ -420,6 +421,10 @@ export function buildHandoutViewModel(
         t('caution.medicines'),
         t('caution.symptoms'),
         t('caution.estimates'),
+        // Additive phosphorus varies by brand (Sherman and Mehta 2009): said on every handout.
+        t('caution.additives'),
+        ...(cautionCodes.has('potassium-dialysis') ? [t('caution.potassium')] : []),
+        ...(cautionCodes.has('protein-below-target') ? [t('caution.protein')] : []),
         ...(clinic.contact.trim() ? [t('caution.questions', { contact: clinic.contact })] : []),
       ],
     },

@@ -24,6 +24,8 @@ export interface Target {
   fromBindersMaxMg?: number | null;
   /** When the target is not set, this is said as needing attention (potassium on dialysis). */
   unsetAttention?: string | null;
+  /** Potassium only: the record is on dialysis (potassium cautions are shown). */
+  onDialysis?: boolean;
 }
 
 export type Targets = Record<TargetKey, Target>;
@@ -356,6 +358,7 @@ export function computeTargets(p: TargetInputs): Targets {
     };
   }
   const k = defaults.potassiumMg;
+  k.onDialysis = p.dialysis !== 'none';
   if (p.dialysis !== 'none' && k.min === null && k.max === null)
     k.unsetAttention =
       'No potassium target is set for a patient on dialysis: set one with the care team.';

@@ -3,6 +3,7 @@ import type { Disagreement } from '../binders/distribution.js';
 import type { SpacingNote } from '../binders/catalogue.js';
 import type { AbsorptionFractions } from '../phosphorus/absorption.js';
 import type { LatestLabs } from '../patients/labs.js';
+import type { ClinicalCaution } from './cautions.js';
 import type { CkdStage, Dialysis } from '../patients/patient.js';
 import type { TargetKey, Targets } from '../patients/targets.js';
 import type { Thresholds } from './plan-settings.js';
@@ -205,4 +206,6 @@ export interface PlanSummary {
   binders: BinderSummary;
   thresholds: Thresholds;
   caution: string;
+  /** Clinical cautions for this plan (potassium on dialysis, protein under target, additive variability). */
+  cautions?: ClinicalCaution[];
 }

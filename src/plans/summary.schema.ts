@@ -77,6 +77,7 @@ const targetSchema = z.object({
     .optional(),
   fromBindersMaxMg: n.optional(),
   unsetAttention: z.string().nullable().optional(),
+  onDialysis: z.boolean().optional(),
 });
 const targetKey = z.enum([
   'proteinG',
@@ -226,4 +227,7 @@ export const planSummarySchema = z.object({
   binders: binderSummarySchema,
   thresholds: z.record(z.string(), z.number()),
   caution: z.string(),
+  cautions: z
+    .array(z.object({ code: z.string(), text: z.string(), source: z.string() }))
+    .optional(),
 });

@@ -12,6 +12,7 @@ import {
   type CalciumLimits,
 } from '../binders/distribution.js';
 import type { LatestLabs } from '../patients/labs.js';
+import { clinicalCautions } from './cautions.js';
 import type { Food } from '../foods/food.js';
 import type { TargetKey, Targets } from '../patients/targets.js';
 import { profileFood, scaleProfile, type PhosphorusProfile } from '../phosphorus/profile.js';
@@ -422,6 +423,12 @@ export function summarizePlan(
     binders: summarizeBinders(binder, days, dayAccs, loadsByDay, settings, calcium),
     thresholds,
     caution: SUMMARY_CAUTION,
+    cautions: clinicalCautions({
+      targets,
+      proteinBelowTarget: days.some((d) =>
+        d.status.checks.some((c) => c.target === 'proteinG' && c.status === 'below'),
+      ),
+    }),
   };
 }
 

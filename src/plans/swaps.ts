@@ -3,6 +3,7 @@ import type { AbsorptionFractions } from '../phosphorus/absorption.js';
 import { nameWords } from '../foods/text.js';
 import { profileFood, type PhosphorusProfile } from '../phosphorus/profile.js';
 import { CLASS_ORIGIN, classifyFood, type Origin } from '../phosphorus/food-class.js';
+import { PLANT_SWAP_POTASSIUM_CAUTION } from './cautions.js';
 
 /** Below this protein (g/100 g) a food is compared per portion instead (common practice, no source). */
 export const SWAP_MIN_PROTEIN_G_PER_100G = 1;
@@ -51,6 +52,8 @@ export interface SwapResult {
   swaps: SwapCandidate[];
   /** Swaps that pass on phosphorus but carry > 20% more potassium or sodium: shown only with their caution. */
   cautioned: SwapCandidate[];
+  /** Said when a plant food is offered or a swap carries more potassium; null otherwise. */
+  potassiumCaution: string | null;
   rule: string;
 }
 
@@ -375,7 +378,8 @@ export function rankSwaps(
     portion,
     rule,
   };
-  if (orig === null || orig <= 0) return { ...base, swaps: [], cautioned: [] };
+  if (orig === null || orig <= 0)
+    return { ...base, swaps: [], cautioned: [], potassiumCaution: null };
   const limit = Math.max(0, Math.min(MAX_SWAPS, opts.limit));
   const facts: OriginalFacts = {
     food: original,
@@ -394,5 +398,15 @@ export function rankSwaps(
   }
   accepted.sort(bySwapOrder);
   cautioned.sort(bySwapOrder);
-  return { ...base, swaps: accepted.slice(0, limit), cautioned: cautioned.slice(0, limit) };
+  const swaps = accepted.slice(0, limit);
+  const shownCautioned = cautioned.slice(0, limit);
+  const potassiumRisk = [...swaps, ...shownCautioned].some(
+    (s) => s.proteinOrigin === 'plant' || (s.potassiumShare !== null && s.potassiumShare > 1),
+  );
+  return {
+    ...base,
+    swaps,
+    cautioned: shownCautioned,
+    potassiumCaution: potassiumRisk ? PLANT_SWAP_POTASSIUM_CAUTION : null,
+  };
 }
