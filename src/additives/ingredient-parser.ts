@@ -204,6 +204,7 @@ const CONJ = new Set([
   'e',
   'ed',
   'u',
+  'en',
   '&',
   '/',
   ',',
@@ -213,12 +214,22 @@ const PREP = new Set(['de', 'di', 'd', 'of', 'du', 'des', 'da', 'do', 'del', 'de
 
 /** Phosphate anion word: "phosphate(s)", "fosfato(s)", "fosfati", "diphosphates", "polifosfati". */
 const PHOS_STEM_RE =
-  /^(ortho|orto|di|tri|tripoly|tripoli|poly|poli|pyro|piro|hexameta|esameta|meta|dihydrogeno|hydrogeno|dihidrogeno|hidrogeno|diidrogeno|idrogeno)?(?:ph|f)os(?:ph|p|f|h)?at(?:e|es|o|os|i|a|as|en|s)?$/;
+  /^(ortho|orto|di|tri|tripoly|tripoli|poly|poli|pyro|piro|hexameta|esameta|meta|dihydrogeno|hydrogeno|dihidrogeno|hidrogeno|diidrogeno|idrogeno)?(?:ph|f)os(?:ph|p|f|h)?a{1,2}t(?:e|es|o|os|i|a|as|en|s)?$/;
 /** German (or joined) compound: "dinatriumdiphosphat", "natriumaluminiumphosphat". */
 const PHOS_COMPOUND_RE =
-  /^(mono|di|tri|tetra|penta)?(natrium|kalium|calcium|kalzium|magnesium|ammonium|sodium|potassium|eisen|knochen)(aluminium|calcium)?(dihydrogen|hydrogen)?(ortho|di|tri|poly|pyro|hexameta|meta)?(?:ph|f)osp?h?at(?:e|en|es|s)?$/;
+  /^(mono|di|tri|tetra|penta)?(natrium|kalium|calcium|kalzium|magnesium|ammonium|sodium|potassium|eisen|knochen)(aluminium|calcium)?(dihydrogen|hydrogen|diwaterstof|waterstof)?(ortho|di|tri|poly|pyro|hexameta|meta)?(?:ph|f)os(?:ph|p|f)?h?a{1,2}t(?:e|en|es|s)?$/;
 const ACID_ADJ_RE = /^(ortho|orto)?(?:ph|f)os(?:ph|p|f)?or(ic|ique|ico|ous|us|ik)$/;
-const ACID_COMPOUND_RE = /^(ortho)?(?:ph|f)osp?h?ors(a|ae)ure$/;
+/** German "Phosphorsäure", Dutch "fosforzuur". */
+const ACID_COMPOUND_RE = /^(ortho)?(?:ph|f)osp?h?ors(a|ae)ure$|^(ortho)?fosforzuur$/;
+/**
+ * Last resort for languages without listed names (Polish "fosforany", Swedish "difosfater",
+ * Finnish "fosfaatti", Hungarian "foszfatok"): a word with a phosphate stem that no rule above
+ * read is reported as an unspecified phosphate, so it is never silently missed.
+ */
+const PHOS_ANY_STEM_RE = /phosph|fosf|foszf/;
+/** Words with the stem that name the element or its nutrient value, or non-additive phosphorus compounds. */
+const NOT_AN_ADDITIVE_STEM_RE =
+  /^(phosphor|phosphore|phosphorus|fosforo|fosfor|fosforu|fosforas|foszfor|phosphorous)$|^(phosphati|fosfati|phospholip|fosfolip|glycerophosph|glicerofosf|phosphoresc|fosforesc|phosphoryl|fosforyl)|(frei|vrij|fri|free|fritt|mentes|ase|asa|asy|aza)$/;
 const ACID_WORD_RE = /^(acid|acide|acido)$/;
 const PHOSPHATIDE_RE =
   /^(ammonium)?(?:ph|f)osfatid(e|es|i|os|eos)?$|^(ammonium)?phosphatid(e|es|i|os|eos)?$/;
@@ -244,7 +255,7 @@ const UNIT_RE = /^(mg|g|kg|mcg|ug|ml|l|kcal|kj|iu|ie|ui|mmol|mol|ppm)$/;
 const VITAMIN_RE = /^(vitamin|vitamine|vitamina|vit|vitamins|vitamines|vitaminas)$/;
 /** Words that name an additive class, after which bare numbers are INS numbers (": 451, 452"). */
 const CLASS_WORD_RE =
-  /^(emul|salt|sel|sale|sali|sais|salz|raising|leaven|agent|acid|regulat|correct|regol|stabil|estabil|thicken|espes|epaiss|verdick|addens|antioxid|antiossid|sequestr|humect|umid|feucht|firm|enhanc|potenci|exhaust|esalt|intensif|anti|mineral|improv|gasific|leud|levant|lievit|trieb|fermen|conserv|preserv|colou?r|farb|additi|aditiv|stoff|mittel)/;
+  /^(emul|salt|sel|sale|sali|sais|salz|zuurte|smeltzout|rijsmiddel|verdikk|raising|leaven|agent|acid|regulat|correct|regol|stabil|estabil|thicken|espes|epaiss|verdick|addens|antioxid|antiossid|sequestr|humect|umid|feucht|firm|enhanc|potenci|exhaust|esalt|intensif|anti|mineral|improv|gasific|leud|levant|lievit|trieb|fermen|conserv|preserv|colou?r|farb|additi|aditiv|stoff|mittel)/;
 
 const ABBREVIATIONS = new Map<string, AdditiveEntry>();
 for (const e of ADDITIVE_CATALOGUE)
@@ -719,7 +730,17 @@ function scan(norm: string, tokens: Token[], hasNumbers: boolean, hasNames: bool
 
     const compound = PHOS_COMPOUND_RE.exec(w);
     const stem = compound ? null : PHOS_STEM_RE.exec(w);
-    if (!compound && !stem) continue;
+    if (!compound && !stem) {
+      if (PHOS_ANY_STEM_RE.test(w) && !NOT_AN_ADDITIVE_STEM_RE.test(w))
+        raws.push({
+          entry: UNSPECIFIED_PHOSPHATE,
+          s: t.s,
+          e: t.e,
+          how: `stem rule: "${w}" carries a phosphate stem in a language without listed names (unspecified phosphate)`,
+          byNumber: false,
+        });
+      continue;
+    }
 
     // Left context.
     let s = t.s;
@@ -740,7 +761,7 @@ function scan(norm: string, tokens: Token[], hasNumbers: boolean, hasNames: bool
       cations.push({ cation: cationOf(compound[2] as string) as Cation, mult: m, idx: i });
       if (compound[3])
         cations.push({ cation: cationOf(compound[3]) as Cation, mult: null, idx: i });
-      if (compound[4]) hydrogen = compound[4] === 'dihydrogen' ? 2 : 1;
+      if (compound[4]) hydrogen = compound[4].startsWith('di') ? 2 : 1;
       anion = anionOf(compound[5]);
     } else {
       const prefix = (stem as RegExpExecArray)[1];
