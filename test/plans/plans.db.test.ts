@@ -518,7 +518,11 @@ describe('patients and plans over HTTP', () => {
       expect(r.cautioned.map((x: { potassiumShare: number }) => x.potassiumShare)).toEqual([
         2.089, 2.814, 4.164,
       ]);
-      expect(r.cautioned.map((x: { sameKind: boolean }) => x.sameKind)).toEqual([true, true, false]);
+      expect(r.cautioned.map((x: { sameKind: boolean }) => x.sameKind)).toEqual([
+        true,
+        true,
+        false,
+      ]);
       const one = await ctx.inject({ method: 'GET', url: `/api/swaps/${cheddar?.id}?limit=1` });
       expect(one.json().cautioned).toHaveLength(1);
       expect((await ctx.inject({ method: 'GET', url: '/api/swaps/999999' })).statusCode).toBe(404);
