@@ -6,6 +6,7 @@ import * as patientErasure from './202612012100_patient_erasure.js';
 import * as diaryAudits from './202612012110_diary_audits.js';
 import * as foodSearchPrefix from './202612012120_food_search_prefix.js';
 import * as foodNameStart from './202612012130_food_name_start_index.js';
+import * as patientDialysisDetails from './202612060100_patient_dialysis_details.js';
 import * as labResults from './202612060800_lab_results.js';
 
 /**
@@ -20,5 +21,6 @@ export const migrations: Record<string, Migration> = {
   '202612012110_diary_audits': diaryAudits,
   '202612012120_food_search_prefix': foodSearchPrefix,
   '202612012130_food_name_start_index': foodNameStart,
+  '202612060100_patient_dialysis_details': patientDialysisDetails,
   '202612060800_lab_results': labResults,
 };

@@ -64,7 +64,7 @@ export interface AdditiveEntry {
 }
 
 /** Bumped whenever entries, names or matching rules change; stored beside each food's scan. */
-export const ADDITIVE_CATALOGUE_VERSION = '2026-12-01.2';
+export const ADDITIVE_CATALOGUE_VERSION = '2026-12-06.1';
 
 const COUNTED_INORGANIC =
   'inorganic phosphate: counted as additive phosphorus, absorbed almost completely ' +
@@ -1484,3 +1484,26 @@ export const PHOSPHATE_FAMILIES: ReadonlySet<string> = new Set(
 );
 
 export const UNSPECIFIED_PHOSPHATE = UNSPECIFIED;
+
+/**
+ * Dutch label names (nl), by catalogue code: the Dutch language version of Regulation (EC)
+ * No 1333/2008 Annex II and common Dutch label wording (from memory). Kept beside the six
+ * catalogue languages; `test/additives/label-languages.test.ts` checks the analyser reads each.
+ */
+export const DUTCH_LABEL_NAMES: Readonly<Record<string, readonly string[]>> = Object.freeze({
+  'E 338': ['fosforzuur', 'orthofosforzuur'],
+  'E 339(i)': ['mononatriumfosfaat', 'natriumdiwaterstoffosfaat'],
+  'E 339(ii)': ['dinatriumfosfaat', 'dinatriumwaterstoffosfaat'],
+  'E 339(iii)': ['trinatriumfosfaat'],
+  'E 340(i)': ['monokaliumfosfaat', 'kaliumdiwaterstoffosfaat'],
+  'E 340(ii)': ['dikaliumfosfaat'],
+  'E 340(iii)': ['trikaliumfosfaat'],
+  'E 341(i)': ['monocalciumfosfaat', 'calciumdiwaterstoffosfaat'],
+  'E 341(ii)': ['dicalciumfosfaat'],
+  'E 341(iii)': ['tricalciumfosfaat'],
+  'E 450(i)': ['dinatriumdifosfaat'],
+  'E 450(iii)': ['tetranatriumdifosfaat'],
+  'E 451(i)': ['pentanatriumtrifosfaat'],
+  'E 452(i)': ['natriumpolyfosfaat'],
+  phosphate: ['fosfaten', 'fosfaat'],
+});

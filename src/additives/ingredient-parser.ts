@@ -204,6 +204,7 @@ const CONJ = new Set([
   'e',
   'ed',
   'u',
+  'en',
   '&',
   '/',
   ',',
@@ -213,12 +214,22 @@ const PREP = new Set(['de', 'di', 'd', 'of', 'du', 'des', 'da', 'do', 'del', 'de
 
 /** Phosphate anion word: "phosphate(s)", "fosfato(s)", "fosfati", "diphosphates", "polifosfati". */
 const PHOS_STEM_RE =
-  /^(ortho|orto|di|tri|tripoly|tripoli|poly|poli|pyro|piro|hexameta|esameta|meta|dihydrogeno|hydrogeno|dihidrogeno|hidrogeno|diidrogeno|idrogeno)?(?:ph|f)os(?:ph|p|f|h)?at(?:e|es|o|os|i|a|as|en|s)?$/;
+  /^(ortho|orto|di|tri|tripoly|tripoli|poly|poli|pyro|piro|hexameta|esameta|meta|dihydrogeno|hydrogeno|dihidrogeno|hidrogeno|diidrogeno|idrogeno)?(?:ph|f)os(?:ph|p|f|h)?a{1,2}t(?:e|es|o|os|i|a|as|en|s)?$/;
 /** German (or joined) compound: "dinatriumdiphosphat", "natriumaluminiumphosphat". */
 const PHOS_COMPOUND_RE =
-  /^(mono|di|tri|tetra|penta)?(natrium|kalium|calcium|kalzium|magnesium|ammonium|sodium|potassium|eisen|knochen)(aluminium|calcium)?(dihydrogen|hydrogen)?(ortho|di|tri|poly|pyro|hexameta|meta)?(?:ph|f)osp?h?at(?:e|en|es|s)?$/;
+  /^(mono|di|tri|tetra|penta)?(natrium|kalium|calcium|kalzium|magnesium|ammonium|sodium|potassium|eisen|knochen)(aluminium|calcium)?(dihydrogen|hydrogen|diwaterstof|waterstof)?(ortho|di|tri|poly|pyro|hexameta|meta)?(?:ph|f)os(?:ph|p|f)?h?a{1,2}t(?:e|en|es|s)?$/;
 const ACID_ADJ_RE = /^(ortho|orto)?(?:ph|f)os(?:ph|p|f)?or(ic|ique|ico|ous|us|ik)$/;
-const ACID_COMPOUND_RE = /^(ortho)?(?:ph|f)osp?h?ors(a|ae)ure$/;
+/** German "Phosphorsäure", Dutch "fosforzuur". */
+const ACID_COMPOUND_RE = /^(ortho)?(?:ph|f)osp?h?ors(a|ae)ure$|^(ortho)?fosforzuur$/;
+/**
+ * Last resort for languages without listed names (Polish "fosforany", Swedish "difosfater",
+ * Finnish "fosfaatti", Hungarian "foszfatok"): a word with a phosphate stem that no rule above
+ * read is reported as an unspecified phosphate, so it is never silently missed.
+ */
+const PHOS_ANY_STEM_RE = /phosph|fosf|foszf/;
+/** Words with the stem that name the element or its nutrient value, or non-additive phosphorus compounds. */
+const NOT_AN_ADDITIVE_STEM_RE =
+  /^(phosphor|phosphore|phosphorus|fosforo|fosfor|fosforu|fosforas|foszfor|phosphorous)$|^(phosphati|fosfati|phospholip|fosfolip|glycerophosph|glicerofosf|phosphoresc|fosforesc|phosphoryl|fosforyl)|(frei|vrij|fri|free|fritt|mentes|ase|asa|asy|aza)$/;
 const ACID_WORD_RE = /^(acid|acide|acido)$/;
 const PHOSPHATIDE_RE =
   /^(ammonium)?(?:ph|f)osfatid(e|es|i|os|eos)?$|^(ammonium)?phosphatid(e|es|i|os|eos)?$/;
@@ -244,7 +255,7 @@ const UNIT_RE = /^(mg|g|kg|mcg|ug|ml|l|kcal|kj|iu|ie|ui|mmol|mol|ppm)$/;
 const VITAMIN_RE = /^(vitamin|vitamine|vitamina|vit|vitamins|vitamines|vitaminas)$/;
 /** Words that name an additive class, after which bare numbers are INS numbers (": 451, 452"). */
 const CLASS_WORD_RE =
-  /^(emul|salt|sel|sale|sali|sais|salz|raising|leaven|agent|acid|regulat|correct|regol|stabil|estabil|thicken|espes|epaiss|verdick|addens|antioxid|antiossid|sequestr|humect|umid|feucht|firm|enhanc|potenci|exhaust|esalt|intensif|anti|mineral|improv|gasific|leud|levant|lievit|trieb|fermen|conserv|preserv|colou?r|farb|additi|aditiv|stoff|mittel)/;
+  /^(emul|salt|sel|sale|sali|sais|salz|zuurte|smeltzout|rijsmiddel|verdikk|raising|leaven|agent|acid|regulat|correct|regol|stabil|estabil|thicken|espes|epaiss|verdick|addens|antioxid|antiossid|sequestr|humect|umid|feucht|firm|enhanc|potenci|exhaust|esalt|intensif|anti|mineral|improv|gasific|leud|levant|lievit|trieb|fermen|conserv|preserv|colou?r|farb|additi|aditiv|stoff|mittel)/;
 
 const ABBREVIATIONS = new Map<string, AdditiveEntry>();
 for (const e of ADDITIVE_CATALOGUE)
@@ -788,7 +799,7 @@ function saltPhraseFromWord(
     p.cations.push({ cation: cationOf(compound[2] as string) as Cation, mult: m, idx: i });
     if (compound[3])
       p.cations.push({ cation: cationOf(compound[3]) as Cation, mult: null, idx: i });
-    if (compound[4]) p.hydrogen = compound[4] === 'dihydrogen' ? 2 : 1;
+    if (compound[4]) p.hydrogen = compound[4].startsWith('di') ? 2 : 1;
     p.anion = anionOf(compound[5]);
     return p;
   }
@@ -1081,6 +1092,18 @@ function perCationFindings(v: TokenView, i: number, last: number, p: SaltPhrase)
   return raws;
 }
 
+/**
+ * Last resort for languages without listed names (Polish "fosforany", Swedish "difosfater",
+ * Finnish "fosfaatti", Hungarian "foszfatok"): a word with a phosphate stem that no rule above
+ * read is reported as an unspecified phosphate, so it is never silently missed.
+ */
+const unlistedStemRule: NameRule = (v, i, w) => {
+  if (!PHOS_ANY_STEM_RE.test(w) || NOT_AN_ADDITIVE_STEM_RE.test(w)) return { raws: [], last: i };
+  const t = v.at(i);
+  const how = `stem rule: "${w}" carries a phosphate stem in a language without listed names (unspecified phosphate)`;
+  return { raws: [nameRaw(UNSPECIFIED_PHOSPHATE, t.s, t.e, how)], last: i };
+};
+
 /** The name rules, in the order they are tried on a word (the first that reads it wins). */
 const NAME_RULES: readonly NameRule[] = [
   abbreviationRule,
@@ -1094,6 +1117,7 @@ const NAME_RULES: readonly NameRule[] = [
   phosphatideRule,
   starchCompoundRule,
   phosphateSaltRule,
+  unlistedStemRule,
 ];
 
 // ---------------------------------------------------------------------------------------------

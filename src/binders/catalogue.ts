@@ -48,6 +48,12 @@ export interface BinderInfo {
   /** How to take it relative to the meal, and whether to chew or swallow whole. */
   timing: string;
   timingSource: string;
+  /**
+   * How the patient takes it, as the handout says it (the one place handouts read it from):
+   * 'swallow' whole, 'chew' (or crush) before swallowing, or 'as-label' where chewable,
+   * swallowable or powder forms exist and only the product label can say.
+   */
+  intake: 'swallow' | 'chew' | 'as-label';
   spacing: SpacingNote[];
   /** Warnings always shown with this ingredient. */
   warnings: string[];
@@ -68,6 +74,7 @@ export const BINDER_CATALOGUE: Record<BinderIngredient, BinderInfo> = {
     timing:
       'Take with meals, starting with the first bites. Swallow the capsule or tablet with the meal.',
     timingSource: `US label (calcium acetate 667 mg): take with meals; ${WITH_MEALS_SOURCE}`,
+    intake: 'swallow',
     spacing: [
       {
         medicines: 'quinolone antibiotics (e.g. ciprofloxacin)',
@@ -101,6 +108,7 @@ export const BINDER_CATALOGUE: Record<BinderIngredient, BinderInfo> = {
     timing:
       'Take with meals, starting with the first bites. Chew or swallow as the product label says (chewable and swallowable forms exist).',
     timingSource: WITH_MEALS_SOURCE,
+    intake: 'as-label',
     spacing: [
       {
         medicines: 'quinolone and tetracycline antibiotics, levothyroxine, oral iron',
@@ -124,6 +132,7 @@ export const BINDER_CATALOGUE: Record<BinderIngredient, BinderInfo> = {
       'Take with meals, starting with the first bites. Swallow tablets whole; do not crush, chew or break them (powder: mix with water as labelled).',
     timingSource:
       'US label (sevelamer carbonate): take with meals [V]; swallow whole [from memory]',
+    intake: 'as-label',
     spacing: [
       {
         medicines:
@@ -146,6 +155,7 @@ export const BINDER_CATALOGUE: Record<BinderIngredient, BinderInfo> = {
     timing:
       'Take with meals, starting with the first bites. Swallow tablets whole; do not crush, chew or break them.',
     timingSource: 'sevelamer product information: take with meals [V]; swallow whole [from memory]',
+    intake: 'swallow',
     spacing: [
       {
         medicines:
@@ -168,6 +178,7 @@ export const BINDER_CATALOGUE: Record<BinderIngredient, BinderInfo> = {
     timing:
       'Take with or right after the meal. Chew or crush the tablet completely before swallowing; never swallow it whole. Powder may be mixed with soft food such as applesauce.',
     timingSource: 'US label (lanthanum carbonate chewable tablets and oral powder)',
+    intake: 'chew',
     spacing: [
       {
         medicines: 'medicines known to interact with antacids',
@@ -197,6 +208,7 @@ export const BINDER_CATALOGUE: Record<BinderIngredient, BinderInfo> = {
     timing:
       'Take with meals, starting with the first bites. Swallow tablets whole; do not crush or chew them.',
     timingSource: 'ferric citrate product information (secondary label summaries)',
+    intake: 'swallow',
     spacing: [
       {
         medicines: 'doxycycline',
@@ -221,6 +233,7 @@ export const BINDER_CATALOGUE: Record<BinderIngredient, BinderInfo> = {
     timing:
       'Take with meals, starting with the first bites. Chew or crush the tablet; do not swallow it whole.',
     timingSource: 'sucroferric oxyhydroxide product information (secondary label summaries)',
+    intake: 'chew',
     spacing: [
       {
         medicines: 'doxycycline, cefalexin, aspirin',
@@ -244,6 +257,7 @@ export const BINDER_CATALOGUE: Record<BinderIngredient, BinderInfo> = {
     rpbcPerG: 1.5, // Daugirdas 2011
     timing: 'Take with meals, starting with the first bites.',
     timingSource: WITH_MEALS_SOURCE,
+    intake: 'as-label',
     spacing: [
       {
         medicines: 'quinolone and tetracycline antibiotics, levothyroxine, iron',
@@ -265,6 +279,7 @@ export const BINDER_CATALOGUE: Record<BinderIngredient, BinderInfo> = {
     rpbcPerG: 1.7, // Daugirdas 2011, anhydrous; heavy/hydrated magnesium carbonate 1.3
     timing: 'Take with meals, starting with the first bites.',
     timingSource: WITH_MEALS_SOURCE,
+    intake: 'as-label',
     spacing: [
       {
         medicines: 'quinolone and tetracycline antibiotics, levothyroxine, iron',

@@ -3,6 +3,7 @@
  * its evidence and whether the additive is hidden; per day the totals against the targets and the
  * top contributors (through the plan summary, so diary and plan days add up the same way).
  */
+import { clinicalCautions, type ClinicalCaution } from '../plans/cautions.js';
 import type { Food } from '../foods/food.js';
 import type { Targets } from '../patients/targets.js';
 import { guessOccasionKind, type PlanDay } from '../plans/plan.js';
@@ -117,6 +118,8 @@ export interface DiaryReport {
   hiddenAdditiveEntries: number[];
   targetsSource: 'patient' | 'none';
   caution: string;
+  /** Clinical cautions (potassium on dialysis, protein under target, additive variability). */
+  cautions?: ClinicalCaution[];
 }
 
 /**
@@ -138,7 +141,7 @@ export function dayKey(e: Pick<DiaryEntryInput, 'date' | 'dayLabel'>): string {
 
 /** Targets for an audit without a patient: none set, said so plainly. */
 export function unsetTargets(): Targets {
-  const none = (unit: 'g/day' | 'kcal/day' | 'mg/day') => ({
+  const none = (unit: 'g/day' | 'kcal/day' | 'mg/day' | 'mL/day') => ({
     min: null,
     max: null,
     unit,
@@ -154,6 +157,8 @@ export function unsetTargets(): Targets {
     sodiumMg: none('mg/day'),
     phosphorusMg: none('mg/day'),
     potassiumMg: none('mg/day'),
+    calciumMg: none('mg/day'),
+    fluidMl: none('mL/day'),
   };
 }
 
@@ -430,6 +435,12 @@ export function buildDiaryReport(input: BuildInput): Omit<DiaryReport, 'days'> &
     hiddenAdditiveEntries: reports.filter((r) => r.hidden).map((r) => r.line),
     targetsSource: input.targetsSource,
     caution: DIARY_CAUTION,
+    cautions: clinicalCautions({
+      targets: input.targets,
+      proteinBelowTarget: days.some((d) =>
+        d.status.checks.some((c) => c.target === 'proteinG' && c.status === 'below'),
+      ),
+    }),
   };
 }
 

@@ -43,6 +43,7 @@ export function diaryReportView(
       report.caution,
       'Absorbable phosphorus is a range from assumed absorption fractions, not a measurement.',
       'Swaps are suggestions from the food tables for the dietitian to judge; they are not a prescription.',
+      ...(report.cautions ?? []).map((c) => `${c.text} (${c.source})`),
     ],
     days: report.days.map((d) => {
       const n = d.nutrients;

@@ -59,10 +59,12 @@ export interface HandoutSummary {
       units: number;
     } | null;
     perOccasion: HandoutBinderDose[];
-    /** Units handed out per day after distribution, when the summary lists them. */
-    days?: { day: string; distributedUnits: number }[];
+    /** Units prescribed and handed out per day after distribution, when the summary lists them. */
+    days?: { day: string; distributedUnits: number; prescribedUnits?: number }[];
     elementalCalciumMgPerDay?: number | null;
   } | null;
+  /** The summary's clinical cautions; the handout says those meant for the patient. */
+  cautions?: { code: string }[];
 }
 
 export interface HandoutPatient {

@@ -2,6 +2,7 @@ import { formatDate, formatList, formatNumber, formatTime } from '../i18n/format
 import type { MessageBundle, MessageValues } from '../i18n/messages.js';
 import type { ReviewStatus } from '../i18n/catalogue.js';
 import type { ScriptFamily } from './pdf/fonts.js';
+import { BINDER_CATALOGUE, type BinderInfo } from '../binders/catalogue.js';
 import type {
   AdditiveLabelEntry,
   HandoutClinic,
@@ -167,15 +168,11 @@ const MEASURES: [RegExp, string][] = [
   [/^large\b/i, 'measure.large'],
 ];
 
-/**
- * How each binder is taken beyond "with the first bites of the meal". Only forms that come in a
- * single way get a fixed instruction: ferric citrate tablets are swallowed whole and
- * sucroferric oxyhydroxide tablets are chewed (US prescribing information, from memory); the
- * others come as chewables, tablets or powders, so the patient is sent to the label.
- */
-const BINDER_HOW: Record<string, string> = {
-  'ferric-citrate': 'binder.timing.swallow',
-  'sucroferric-oxyhydroxide': 'binder.timing.chew',
+/** The handout sentence for each way of taking a binder (the way itself is in the binder catalogue). */
+const INTAKE_KEYS: Record<BinderInfo['intake'], string> = {
+  swallow: 'binder.timing.swallow',
+  chew: 'binder.timing.chew',
+  'as-label': 'binder.timing.asLabel',
 };
 
 /** A label used as a heading starts with a capital where the script has them. */
@@ -219,6 +216,27 @@ function cookingSection(
     water: t('prep.water'),
     caution: t('prep.caution'),
   };
+}
+
+/** How a binder is taken, from the binder catalogue only; an unknown ingredient reads the label. */
+export function binderIntakeKey(ingredient: string): string {
+  const info = (BINDER_CATALOGUE as Record<string, BinderInfo | undefined>)[ingredient];
+  return INTAKE_KEYS[info?.intake ?? 'as-label'];
+}
+
+/**
+ * Units a day the handout states: the prescription itself for a per-day schedule; for a
+ * per-meal one, the units with each meal x the meals of the day, as the summary's schedule
+ * counted them, when every day has the same number (else null: the per-meal line stands alone).
+ */
+function statedUnitsPerDay(binders: NonNullable<HandoutSummary['binders']>): number | null {
+  const rx = binders.prescription;
+  if (!rx) return null;
+  if (rx.schedule !== 'per-meal') return rx.units;
+  const perDay = new Set((binders.days ?? []).map((d) => d.prescribedUnits ?? null));
+  if (perDay.size !== 1) return null;
+  const [only] = [...perDay];
+  return only ?? null;
 }
 
 /** Reads the day's phosphorus target (mg/day) from the summary's targets, whatever its shape. */
@@ -319,7 +337,8 @@ export function buildHandoutViewModel(
                 const timing = t('binder.timing.withMeal');
                 return { units, dose, timing: [timing], line: t('binder.line', { dose, timing }) };
               })()
-            : { units: 0, dose: t('binder.none'), timing: [], line: t('binder.none') };
+            : // Never "not needed": none is prescribed here, and the care team decides.
+              { units: 0, dose: t('binder.none'), timing: [], line: t('binder.none') };
       }
       const a = occ.nutrients.absorbablePhosphorusMg;
       return {
@@ -390,15 +409,13 @@ export function buildHandoutViewModel(
 
   const binderLines: string[] = [];
   const prescription = summary.binders?.prescription ?? null;
-  if (prescription && binderName) {
-    const firstDay = summary.days[0];
-    const perDay =
-      prescription.schedule === 'per-meal' && firstDay
-        ? doses.filter((d) => sameDay(d.day, 0, firstDay)).reduce((s, d) => s + d.units, 0)
-        : prescription.units;
-    binderLines.push(t('binder.perDay', { count: perDay }));
+  if (prescription && binderName && summary.binders) {
+    if (prescription.schedule === 'per-meal')
+      binderLines.push(t('binder.perMeal', { count: prescription.units }));
+    const perDay = statedUnitsPerDay(summary.binders);
+    if (perDay !== null && perDay > 0) binderLines.push(t('binder.perDay', { count: perDay }));
     binderLines.push(t('binder.timing.withMeal'));
-    binderLines.push(t(BINDER_HOW[prescription.ingredient] ?? 'binder.timing.asLabel'));
+    binderLines.push(t(binderIntakeKey(prescription.ingredient)));
   } else {
     binderLines.push(t('binder.noPrescription'));
   }
@@ -419,6 +436,7 @@ export function buildHandoutViewModel(
     ),
   ];
 
+  const cautionCodes = new Set((summary.cautions ?? []).map((c) => c.code));
   const value: HandoutViewModel = {
     language,
     languageName: meta.name,
@@ -473,6 +491,10 @@ export function buildHandoutViewModel(
         t('caution.medicines'),
         t('caution.symptoms'),
         t('caution.estimates'),
+        // Additive phosphorus varies by brand (Sherman and Mehta 2009): said on every handout.
+        t('caution.additives'),
+        ...(cautionCodes.has('potassium-dialysis') ? [t('caution.potassium')] : []),
+        ...(cautionCodes.has('protein-below-target') ? [t('caution.protein')] : []),
         ...(clinic.contact.trim() ? [t('caution.questions', { contact: clinic.contact })] : []),
       ],
     },

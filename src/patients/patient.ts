@@ -29,6 +29,8 @@ export const targetOverridesSchema = z
     sodiumMg: rangeOverride.optional(),
     phosphorusMg: rangeOverride.optional(),
     potassiumMg: rangeOverride.optional(),
+    calciumMg: rangeOverride.optional(),
+    fluidMl: rangeOverride.optional(),
   })
   .strict();
 export type TargetOverrides = z.infer<typeof targetOverridesSchema>;
@@ -67,6 +69,20 @@ const patientFields = {
   binder: binderPrescriptionSchema.nullable().default(null),
   targetOverrides: targetOverridesSchema.default({}),
   identifier: identifierSchema.nullable().default(null),
+  /** 24-h urine output, mL/day (dialysis fluid allowance); null = not recorded. */
+  urineOutputMlPerDay: z
+    .number({ error: 'urineOutputMlPerDay must be a number (mL/day)' })
+    .min(0, 'urineOutputMlPerDay must be between 0 and 5000 mL/day')
+    .max(5000, 'urineOutputMlPerDay must be between 0 and 5000 mL/day')
+    .nullable()
+    .optional(),
+  /** Peritoneal dialysis: glucose instilled with the dialysate, g/day; null = not recorded. */
+  pdDialysateGlucoseGPerDay: z
+    .number({ error: 'pdDialysateGlucoseGPerDay must be a number (g/day)' })
+    .min(0, 'pdDialysateGlucoseGPerDay must be between 0 and 1000 g/day')
+    .max(1000, 'pdDialysateGlucoseGPerDay must be between 0 and 1000 g/day')
+    .nullable()
+    .optional(),
 };
 
 /** Dialysis means stage 5D: a stage 3a-4 record on dialysis is a contradiction. */
@@ -102,6 +118,8 @@ export interface Patient {
   binder: BinderPrescription | null;
   targetOverrides: TargetOverrides;
   identifier: PatientIdentifier | null;
+  urineOutputMlPerDay: number | null;
+  pdDialysateGlucoseGPerDay: number | null;
   isDemo: boolean;
   createdAt: string;
   updatedAt: string;
@@ -153,6 +171,8 @@ export const patientUpdateSchema = z
     binder: binderPrescriptionSchema.nullable().optional(),
     targetOverrides: targetOverridesSchema.optional(),
     identifier: identifierSchema.nullable().optional(),
+    urineOutputMlPerDay: patientFields.urineOutputMlPerDay,
+    pdDialysateGlucoseGPerDay: patientFields.pdDialysateGlucoseGPerDay,
   })
   .strict()
   .superRefine(checkStageModality);
@@ -173,5 +193,7 @@ export function patientToInput(p: Patient): PatientInput {
     binder: p.binder,
     targetOverrides: p.targetOverrides,
     identifier: p.identifier,
+    urineOutputMlPerDay: p.urineOutputMlPerDay,
+    pdDialysateGlucoseGPerDay: p.pdDialysateGlucoseGPerDay,
   };
 }

@@ -42,6 +42,8 @@ export function rowToPatient(row: PatientRow, labs: readonly LabRecord[]): Patie
       row.identifier_value === null
         ? null
         : { system: row.identifier_system, value: row.identifier_value },
+    urineOutputMlPerDay: row.urine_output_ml_per_day ?? null,
+    pdDialysateGlucoseGPerDay: row.pd_glucose_g_per_day ?? null,
     isDemo: row.is_demo === 1,
     createdAt: row.created_at,
     updatedAt: row.updated_at,
@@ -61,6 +63,8 @@ function toColumns(p: PatientInput) {
     target_overrides_json: JSON.stringify(p.targetOverrides),
     identifier_system: p.identifier?.system ?? null,
     identifier_value: p.identifier?.value ?? null,
+    urine_output_ml_per_day: p.urineOutputMlPerDay ?? null,
+    pd_glucose_g_per_day: p.pdDialysateGlucoseGPerDay ?? null,
   };
 }
 

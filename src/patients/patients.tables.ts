@@ -14,6 +14,8 @@ export interface PatientTable {
   /** The identifier the clinic's record system knows the patient by (FHIR Identifier). */
   identifier_system: string | null;
   identifier_value: string | null;
+  urine_output_ml_per_day: number | null;
+  pd_glucose_g_per_day: number | null;
   is_demo: Generated<number>;
   created_at: string;
   updated_at: string;

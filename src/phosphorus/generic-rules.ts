@@ -28,6 +28,9 @@ export const GENERIC_ADDITIVE_RULES: readonly GenericAdditiveRule[] = Object.fre
       `E 338 as the acidulant of colas (${EU_ANNEX_II}, flavoured drinks); soft drinks among the top sources of added P ` +
       '(Fulgoni K, Fulgoni VL, Nutrients 2021;13:2249); Kalantar-Zadeh K et al., CJASN 2010;5:519-530',
     classOverride: 'beverage',
+    // A trace protein value (0.07 g in USDA SR28 NDB 14400) would otherwise keep some of the
+    // phosphorus "natural": the acid is the source, so all of it is taken as additive.
+    allAdditive: true,
     matches: (f) => {
       // The maker's name ("THE COCA-COLA COMPANY, ...") is not the drink.
       const name = f.name.replace(/(the )?coca-cola( company| compan\w*)?,?/gi, ' ');

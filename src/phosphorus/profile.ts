@@ -136,6 +136,11 @@ export function profileFood(
     if (counted.length > 0) {
       additiveLikely = true;
       excessClass = cls.foodClass;
+      // An acidulated drink (phosphoric acid, E 338): the acid is the phosphorus source, so a
+      // trace protein value does not keep part of it "natural" (as the cola rule below).
+      if (cls.foodClass === 'beverage' && counted.some((a) => a.family === '338')) {
+        allAdditive = true;
+      }
       evidence.push(
         `Ingredient statement names counted phosphate additives: ${unique(counted.map((a) => `${a.code} ("${a.matchedText}")`)).join(', ')}.`,
       );

@@ -68,3 +68,64 @@ export function ratioBandFor(
   for (const b of bands) if (ratioMgPerG >= b.fromMgPerG) found = b;
   return found;
 }
+
+/**
+ * Threshold for plant foods, mg absorbable phosphorus per g protein: Noori 2010's whole-diet
+ * high band (>= 16 mg/g total P, mostly animal and additive sources in that cohort) times the
+ * typical absorbed fraction of animal organic phosphorus (50%, Kalantar-Zadeh 2010), i.e. the
+ * absorbable phosphorus per g protein of an animal food at the band's edge: 16 x 0.5 = 8 mg/g.
+ * Plant phosphorus is largely phytate-bound and poorly absorbed (KDOQI 2020 6.3.2, KDIGO 2017
+ * 4.1.8, Moe SM et al., CJASN 2011;6:257-264), so plant foods are weighed on what is absorbed.
+ */
+export function plantAbsorbableRatioThresholdMgPerG(
+  highRatioMgPerG: number,
+  animalOrganicTypicalFraction: number,
+): number {
+  return highRatioMgPerG * animalOrganicTypicalFraction;
+}
+
+/** How a food's high-ratio flag is judged: total P per g protein, or absorbable P for plant foods. */
+export type RatioFlagBasis = 'total' | 'absorbable-plant';
+
+/**
+ * Whether a food carries the high-ratio flag (pure). Plant-origin foods with no additive
+ * phosphorus are judged on absorbable P per g protein against the derived threshold; animal,
+ * additive and mixed foods on total P per g protein as before. Amounts per 100 g.
+ */
+export function highRatioFlag(
+  p: {
+    ratioMgPerG: number | null;
+    organicAnimalMg: number | null;
+    organicPlantMg: number | null;
+    additiveMg: number | null;
+    absorbableTypicalMg: number | null;
+  },
+  proteinGPer100g: number | null,
+  opts: { highRatioMgPerG: number; minProteinGPer100g: number; animalOrganicTypical: number },
+): { flagged: boolean; basis: RatioFlagBasis; valueMgPerG: number | null } {
+  const prot = proteinGPer100g ?? 0;
+  const plant = p.organicAnimalMg === 0 && p.additiveMg === 0 && (p.organicPlantMg ?? 0) > 0;
+  if (plant) {
+    const value =
+      p.absorbableTypicalMg !== null && prot >= MIN_PROTEIN_FOR_RATIO_G
+        ? p.absorbableTypicalMg / prot
+        : null;
+    const limit = plantAbsorbableRatioThresholdMgPerG(
+      opts.highRatioMgPerG,
+      opts.animalOrganicTypical,
+    );
+    return {
+      flagged: value !== null && value >= limit && prot >= opts.minProteinGPer100g,
+      basis: 'absorbable-plant',
+      valueMgPerG: value,
+    };
+  }
+  return {
+    flagged:
+      p.ratioMgPerG !== null &&
+      p.ratioMgPerG >= opts.highRatioMgPerG &&
+      prot >= opts.minProteinGPer100g,
+    basis: 'total',
+    valueMgPerG: p.ratioMgPerG,
+  };
+}

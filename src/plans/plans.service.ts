@@ -6,6 +6,7 @@ import { BadRequestError, NotFoundError } from '../errors.js';
 import type { Food, FoodLookup } from '../foods/food.js';
 import type { AbsorptionFractions } from '../phosphorus/absorption.js';
 import { PatientRepository } from '../patients/patients.repository.js';
+import { latestLabs } from '../patients/labs.js';
 import { computeTargets } from '../patients/targets.js';
 import { planFoodIds, planInputSchema, resolvePlan, type PlanInput } from './plan.js';
 import { thresholdsSchema, type Thresholds } from './plan-settings.js';
@@ -197,6 +198,7 @@ export class PlanService {
         diabetes: patient.diabetes,
       },
       targets: computeTargets(patient),
+      labs: latestLabs(patient.labs ?? []),
       binder: patient.binder,
       absorption,
       thresholds,
@@ -223,5 +225,6 @@ export function summarizeVersion(header: PlanHeader, v: PlanVersion): PlanSummar
     // Older versions may lack thresholds added since: the schema fills their defaults.
     { absorption: v.context.absorption, thresholds: thresholdsSchema.parse(v.context.thresholds) },
     v.context.binder,
+    v.context.labs ?? null,
   );
 }

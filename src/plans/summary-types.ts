@@ -2,6 +2,8 @@ import type { BinderPrescription } from '../binders/binder.js';
 import type { Disagreement } from '../binders/distribution.js';
 import type { SpacingNote } from '../binders/catalogue.js';
 import type { AbsorptionFractions } from '../phosphorus/absorption.js';
+import type { LatestLabs } from '../patients/labs.js';
+import type { ClinicalCaution } from './cautions.js';
 import type { CkdStage, Dialysis } from '../patients/patient.js';
 import type { TargetKey, Targets } from '../patients/targets.js';
 import type { Thresholds } from './plan-settings.js';
@@ -13,6 +15,8 @@ export interface VersionContext {
   binder: BinderPrescription | null;
   absorption: AbsorptionFractions;
   thresholds: Thresholds;
+  /** Latest phosphate, calcium and albumin at save time (absent in versions saved before). */
+  labs?: LatestLabs;
 }
 
 /** The settings the summary reads. */
@@ -152,12 +156,21 @@ export interface Contributor {
   flags: { additive: boolean; highRatio: boolean };
 }
 
+export interface DayRatioBand {
+  ratioMgPerG: number;
+  band: string;
+  label: string;
+  note: string;
+}
+
 export interface DaySummary {
   label: string;
   occasions: OccasionSummary[];
   nutrients: Nutrients;
   targets: Targets;
   status: DayStatus;
+  /** The day's P:protein ratio in Noori 2010's whole-diet bands (null without protein). */
+  ratioBand?: DayRatioBand | null;
   topContributors: Contributor[];
 }
 
@@ -215,9 +228,19 @@ export interface PlanSummary {
   topContributors: Contributor[];
   flags: {
     additiveFoods: { foodId: number; name: string; evidence: string[] }[];
-    highRatioFoods: { foodId: number; name: string; phosphorusProteinRatioMgPerG: number }[];
+    highRatioFoods: {
+      foodId: number;
+      name: string;
+      phosphorusProteinRatioMgPerG: number;
+      /** 'absorbable-plant': a plant food judged on absorbable P per g protein; else total. */
+      basis?: 'total' | 'absorbable-plant';
+      /** The value the flag was judged on, mg per g protein. */
+      flaggedValueMgPerG?: number;
+    }[];
   };
   binders: BinderSummary;
   thresholds: Thresholds;
   caution: string;
+  /** Clinical cautions for this plan (potassium on dialysis, protein under target, additive variability). */
+  cautions?: ClinicalCaution[];
 }

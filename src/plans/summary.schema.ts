@@ -110,14 +110,29 @@ const itemSchema = z.object({
 const targetSchema = z.object({
   min: n,
   max: n,
-  unit: z.enum(['g/day', 'kcal/day', 'mg/day']),
+  unit: z.enum(['g/day', 'kcal/day', 'mg/day', 'mL/day']),
   perKg: z.object({ min: z.number(), max: z.number(), unit: z.string() }).nullable(),
   setBy: z.enum(['default', 'dietitian', 'unset']),
   source: z.string(),
   defaultValue: z.object({ min: n, max: n }).nullable(),
   note: z.string().nullable(),
+  alongside: z
+    .object({ min: z.number(), max: z.number(), perKg: z.number(), source: z.string() })
+    .nullable()
+    .optional(),
+  fromBindersMaxMg: n.optional(),
+  unsetAttention: z.string().nullable().optional(),
+  onDialysis: z.boolean().optional(),
 });
-const targetKey = z.enum(['proteinG', 'energyKcal', 'sodiumMg', 'phosphorusMg', 'potassiumMg']);
+const targetKey = z.enum([
+  'proteinG',
+  'energyKcal',
+  'sodiumMg',
+  'phosphorusMg',
+  'potassiumMg',
+  'calciumMg',
+  'fluidMl',
+]);
 
 const statusSchema = z.object({
   level: z.enum(['on-target', 'attention']),
@@ -223,8 +238,18 @@ export const planSummarySchema = z.object({
         }),
       ),
       nutrients: nutrientsSchema,
-      targets: z.record(targetKey, targetSchema),
+      // Versions saved before a target existed lack it.
+      targets: z.partialRecord(targetKey, targetSchema),
       status: statusSchema,
+      ratioBand: z
+        .object({
+          ratioMgPerG: z.number(),
+          band: z.string(),
+          label: z.string(),
+          note: z.string(),
+        })
+        .nullable()
+        .optional(),
       topContributors: z.array(contributorSchema),
     }),
   ),
@@ -235,10 +260,19 @@ export const planSummarySchema = z.object({
       z.object({ foodId: z.number(), name: z.string(), evidence: z.array(z.string()) }),
     ),
     highRatioFoods: z.array(
-      z.object({ foodId: z.number(), name: z.string(), phosphorusProteinRatioMgPerG: z.number() }),
+      z.object({
+        foodId: z.number(),
+        name: z.string(),
+        phosphorusProteinRatioMgPerG: z.number(),
+        basis: z.enum(['total', 'absorbable-plant']).optional(),
+        flaggedValueMgPerG: z.number().optional(),
+      }),
     ),
   }),
   binders: binderSummarySchema,
   thresholds: z.record(z.string(), z.number()),
   caution: z.string(),
+  cautions: z
+    .array(z.object({ code: z.string(), text: z.string(), source: z.string() }))
+    .optional(),
 });

@@ -5,7 +5,14 @@ import {
   elementalCalciumMgPerUnit,
   pbedGPerUnit,
 } from '../binders/catalogue.js';
-import { ROUNDING_RULE, distributeBinder } from '../binders/distribution.js';
+import {
+  ROUNDING_RULE,
+  distributeBinder,
+  type CalciumContext,
+  type CalciumLimits,
+} from '../binders/distribution.js';
+import type { LatestLabs } from '../patients/labs.js';
+import { clinicalCautions } from './cautions.js';
 import type { Food } from '../foods/food.js';
 import type { TargetKey, Targets } from '../patients/targets.js';
 import { profileFood, scaleProfile, type PhosphorusProfile } from '../phosphorus/profile.js';
@@ -13,10 +20,17 @@ import type { PlanContent, PlanItem } from './plan.js';
 import type { AbsorptionFractions } from '../phosphorus/absorption.js';
 import { applicability, prepareAmounts, sourcesText } from '../preparation/apply.js';
 import { PREPARATION_METHODS, PREP_NUTRIENTS } from '../preparation/methods.js';
+import {
+  RATIO_BANDS,
+  highRatioFlag,
+  ratioBandFor,
+  type RatioFlagBasis,
+} from '../phosphorus/ratio.js';
 import type {
   BinderSummary,
   Contributor,
   DayStatus,
+  DayRatioBand,
   DaySummary,
   ItemNutrients,
   ItemPreparation,
@@ -53,6 +67,8 @@ interface Acc {
   na: number;
   ca: number;
   kcal: number;
+  /** Elemental calcium from the prescribed binder, mg (days only). */
+  binderCa: number;
   missing: Set<NutrientKey>;
   /** Low and high ends of the amounts a preparation changes; set once any item is prepared. */
   ranges: { low: RangeSums; high: RangeSums } | null;
@@ -79,6 +95,7 @@ const newAcc = (): Acc => ({
   na: 0,
   ca: 0,
   kcal: 0,
+  binderCa: 0,
   missing: new Set(),
   ranges: null,
 });
@@ -101,6 +118,7 @@ function addTo(acc: Acc, from: Acc): void {
   acc.na += from.na;
   acc.ca += from.ca;
   acc.kcal += from.kcal;
+  acc.binderCa += from.binderCa;
   for (const m of from.missing) acc.missing.add(m);
 }
 
@@ -152,15 +170,25 @@ function rangesOut(a: Acc, divisor: number): PreparedRanges {
   };
 }
 
-const TARGET_FIELD: Record<
-  TargetKey,
-  { label: string; unit: string; value: (n: Acc) => number; nutrient: NutrientKey }
+/** Targets a plan's days are checked against (fluid is advice only: foods carry no drink volume). */
+const TARGET_FIELD: Partial<
+  Record<
+    TargetKey,
+    { label: string; unit: string; value: (n: Acc) => number; nutrient: NutrientKey }
+  >
 > = {
   proteinG: { label: 'protein', unit: 'g', value: (a) => a.prot, nutrient: 'proteinG' },
   energyKcal: { label: 'energy', unit: 'kcal', value: (a) => a.kcal, nutrient: 'energyKcal' },
   sodiumMg: { label: 'sodium', unit: 'mg', value: (a) => a.na, nutrient: 'sodiumMg' },
   phosphorusMg: { label: 'phosphorus', unit: 'mg', value: (a) => a.p, nutrient: 'phosphorusMg' },
   potassiumMg: { label: 'potassium', unit: 'mg', value: (a) => a.k, nutrient: 'potassiumMg' },
+  // Diet calcium plus the elemental calcium of calcium-based binders (KDOQI 2020 6.2.1 counts both).
+  calciumMg: {
+    label: 'calcium (diet and binder)',
+    unit: 'mg',
+    value: (a) => a.ca + a.binderCa,
+    nutrient: 'calciumMg',
+  },
 };
 
 function rangeText(min: number | null, max: number | null, unit: string): string {
@@ -175,7 +203,9 @@ function checkTargets(a: Acc, targets: Targets, divisor = 1): DayStatus {
   const messages: string[] = [];
   for (const key of Object.keys(TARGET_FIELD) as TargetKey[]) {
     const f = TARGET_FIELD[key];
-    const t = targets[key];
+    // Versions saved before a target existed do not carry it: nothing to check.
+    const t = targets[key] as Targets[TargetKey] | undefined;
+    if (!f || !t) continue;
     const value = f.value(a) / divisor;
     const shown = key === 'proteinG' ? r1(value) : Math.round(value);
     const incomplete = a.missing.has(f.nutrient);
@@ -184,6 +214,7 @@ function checkTargets(a: Acc, targets: Targets, divisor = 1): DayStatus {
     if (t.min === null && t.max === null) {
       status = 'not-set';
       message = `${f.label} ${shown} ${f.unit}: no target set`;
+      if (t.unsetAttention) messages.push(t.unsetAttention);
     } else if (t.min !== null && value < t.min) {
       status = 'below';
       message = `${f.label} ${shown} ${f.unit} is below the target ${rangeText(t.min, t.max, f.unit)}`;
@@ -215,6 +246,8 @@ interface FoodFacts {
   profile: PhosphorusProfile;
   additive: boolean;
   highRatio: boolean;
+  ratioBasis: RatioFlagBasis;
+  ratioValueMgPerG: number | null;
 }
 
 interface ContributorAcc {
@@ -451,8 +484,10 @@ export function summarizePlan(
   targets: Targets,
   settings: SummarySettings,
   binder: BinderPrescription | null = null,
+  labs: LatestLabs | null = null,
 ): PlanSummary {
   const { thresholds, absorption } = settings;
+  const calcium = calciumContext(targets, labs);
   const factsCache = new Map<number, FoodFacts>();
   const factsOf = (foodId: number): FoodFacts => {
     let f = factsCache.get(foodId);
@@ -460,14 +495,22 @@ export function summarizePlan(
       const food = foods.get(foodId);
       if (!food) throw new Error(`food ${foodId} missing from the summary's food map`);
       const profile = profileFood(food, absorption);
+      const flag = highRatioFlag(
+        { ...profile, absorbableTypicalMg: profile.absorbableMg?.typical ?? null },
+        food.per100g.proteinG,
+        {
+          highRatioMgPerG: thresholds.highRatioMgPerG,
+          minProteinGPer100g: thresholds.highRatioMinProteinGPer100g,
+          animalOrganicTypical: absorption.animalOrganic.typical,
+        },
+      );
       f = {
         food,
         profile,
         additive: profile.additiveLikely || profile.additiveEvidentFromName,
-        highRatio:
-          profile.ratioMgPerG !== null &&
-          profile.ratioMgPerG >= thresholds.highRatioMgPerG &&
-          (food.per100g.proteinG ?? 0) >= thresholds.highRatioMinProteinGPer100g,
+        highRatio: flag.flagged,
+        ratioBasis: flag.basis,
+        ratioValueMgPerG: flag.valueMgPerG,
       };
       factsCache.set(foodId, f);
     }
@@ -506,6 +549,7 @@ export function summarizePlan(
       });
       occLoads.push(occAcc.aTyp); // unrounded, for the binder distribution
     }
+    dayAcc.binderCa = binderCalciumMg(binder, day.occasions);
     addTo(planAcc, dayAcc);
     dayAccs.push(dayAcc);
     loadsByDay.push(occLoads);
@@ -515,6 +559,7 @@ export function summarizePlan(
       nutrients: accToNutrients(dayAcc),
       targets,
       status: checkTargets(dayAcc, targets),
+      ratioBand: dayRatioBand(dayAcc),
       topContributors: contributors(dayContrib, dayAcc.p, Math.min(3, thresholds.topContributors)),
     });
   }
@@ -530,6 +575,8 @@ export function summarizePlan(
         foodId: f.food.id,
         name: f.food.name,
         phosphorusProteinRatioMgPerG: r1(f.profile.ratioMgPerG as number),
+        basis: f.ratioBasis,
+        flaggedValueMgPerG: r1(f.ratioValueMgPerG as number),
       });
   }
 
@@ -542,9 +589,15 @@ export function summarizePlan(
     average: { nutrients: accToNutrients(planAcc, n), status: checkTargets(planAcc, targets, n) },
     topContributors: contributors(planContrib, planAcc.p, thresholds.topContributors),
     flags: { additiveFoods, highRatioFoods },
-    binders: summarizeBinders(binder, days, dayAccs, loadsByDay, settings),
+    binders: summarizeBinders(binder, days, dayAccs, loadsByDay, settings, calcium),
     thresholds,
     caution: SUMMARY_CAUTION,
+    cautions: clinicalCautions({
+      targets,
+      proteinBelowTarget: days.some((d) =>
+        d.status.checks.some((c) => c.target === 'proteinG' && c.status === 'below'),
+      ),
+    }),
   };
 }
 
@@ -554,11 +607,21 @@ function summarizeBinders(
   dayAccs: readonly Acc[],
   loadsByDay: readonly number[][],
   settings: SummarySettings,
+  calcium: CalciumContext,
 ): BinderSummary {
-  const limits = {
-    ...KDOQI_2003_CALCIUM_LIMITS,
-    source: 'KDOQI 2003 (Am J Kidney Dis 2003;42(4 Suppl 3)) Guideline 5',
-  };
+  const stage = calcium.limits ?? null;
+  const limits =
+    stage === null
+      ? {
+          ...KDOQI_2003_CALCIUM_LIMITS,
+          source: 'KDOQI 2003 (Am J Kidney Dis 2003;42(4 Suppl 3)) Guideline 5',
+        }
+      : {
+          // Without a binder-only limit, binder calcium is bounded by the total limit itself.
+          fromBindersMaxMg: stage.fromBindersMaxMg ?? stage.totalMaxMg ?? 0,
+          totalMaxMg: stage.totalMaxMg ?? 0,
+          source: stage.source,
+        };
   const caution =
     'The product spreads the prescribed binder over the meals; it does not set or change the dose. Disagreements are for the prescriber to review.';
   if (!binder) {
@@ -591,6 +654,7 @@ function summarizeBinders(
         highLoadOccasionMg: settings.thresholds.highLoadOccasionMg,
       },
       (dayAccs[di] as Acc).ca,
+      calcium,
     );
     for (const o of s.occasions) {
       perOccasion.push({
@@ -648,4 +712,54 @@ function summarizeBinders(
     limits,
     caution,
   };
+}
+
+/** Elemental calcium from the prescribed binder on one day, mg (per-meal: units x the meals). */
+function binderCalciumMg(
+  binder: BinderPrescription | null,
+  occasions: readonly { kind: 'meal' | 'snack' }[],
+): number {
+  if (!binder) return 0;
+  const units =
+    binder.schedule === 'per-day'
+      ? binder.units
+      : binder.units * occasions.filter((o) => o.kind === 'meal').length;
+  return units * elementalCalciumMgPerUnit(binder.ingredient, binder.unitStrengthMg);
+}
+
+/** The stage's calcium limits from the calcium target (older versions: KDOQI 2003) and the latest serum calcium. */
+function calciumContext(targets: Targets, labs: LatestLabs | null): CalciumContext {
+  const t = targets.calciumMg as Targets['calciumMg'] | undefined;
+  const source =
+    t?.setBy === 'dietitian'
+      ? "the dietitian's calcium target"
+      : t?.fromBindersMaxMg
+        ? 'KDOQI 2003 Guideline 5'
+        : 'KDOQI 2020 6.2.1 (CKD 3-4, binders included)';
+  const limits: CalciumLimits | undefined =
+    t && t.setBy !== 'unset'
+      ? { fromBindersMaxMg: t.fromBindersMaxMg ?? null, totalMaxMg: t.max, source }
+      : undefined;
+  const ca = labs?.calcium ?? null;
+  return {
+    ...(limits ? { limits } : {}),
+    latestCalcium: ca
+      ? {
+          mgPerDl: ca.correctedMgPerDl ?? ca.mgPerDl,
+          corrected: ca.correctedMgPerDl !== null,
+          date: ca.date,
+        }
+      : null,
+  };
+}
+
+/**
+ * The day's phosphorus-to-protein ratio in Noori 2010's bands: the evidence was gathered on
+ * whole-diet intakes, so the band belongs to day totals, not to single foods.
+ */
+function dayRatioBand(a: Acc): DayRatioBand | null {
+  if (a.prot <= 0) return null;
+  const ratio = a.p / a.prot;
+  const band = ratioBandFor(ratio, RATIO_BANDS);
+  return { ratioMgPerG: r1(ratio), band: band.id, label: band.label, note: band.note };
 }

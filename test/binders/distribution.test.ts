@@ -7,7 +7,11 @@ import {
   elementalCalciumMgPerUnit,
   pbedGPerUnit,
 } from '../../src/binders/catalogue.js';
-import { distributeBinder, type OccasionLoad } from '../../src/binders/distribution.js';
+import {
+  NONE_PRESCRIBED_TIMING,
+  distributeBinder,
+  type OccasionLoad,
+} from '../../src/binders/distribution.js';
 
 // Invented test thresholds (the clinic sets its own): none under 50 mg, point out >= 250 mg.
 const thresholds = { minAbsorbableMgPerOccasion: 50, highLoadOccasionMg: 250 };
@@ -95,7 +99,9 @@ describe('distribution by largest remainder (worked examples, invented loads)', 
     expect(s.distributedUnits).toBe(6);
     expect(s.occasions[2]?.reason).toMatch(/30 mg .* under the clinic threshold of 50 mg/);
     expect(s.occasions[1]?.reason).toMatch(/remaining units/);
-    expect(s.occasions[2]?.timing).toBe('No binder with this occasion.');
+    // never "not needed": the patient is sent to the care team
+    expect(s.occasions[2]?.timing).toBe(NONE_PRESCRIBED_TIMING);
+    expect(s.occasions[2]?.timing).not.toMatch(/not needed|no binder needed/i);
     expect(s.occasions[0]?.timing).toMatch(/Swallow tablets whole/);
     // 6 x 0.6 g = 3.6 g calcium-carbonate equivalent
     expect(s.pbedGPerDay).toBeCloseTo(3.6, 6);
@@ -137,18 +143,28 @@ describe('distribution by largest remainder (worked examples, invented loads)', 
     ).toEqual(['Lunch', 'Dinner']);
   });
 
-  it('no occasion over the threshold: nothing distributed, said plainly', () => {
+  it('no occasion over the threshold: the meals share the whole prescription, said plainly', () => {
+    // Only one meal (Breakfast 20 mg): all 3 units go to it; the snack gets none.
     const s = distributeBinder(
       rx({ units: 3 }),
       [meal('Breakfast', 20), meal('Snack', 40, 'snack')],
       thresholds,
       0,
     );
-    expect(s.distributedUnits).toBe(0);
+    expect(s.distributedUnits).toBe(3);
+    expect(s.occasions.map((o) => o.units)).toEqual([3, 0]);
     expect(s.disagreements[0]?.code).toBe('no-occasion-over-threshold');
+    // Two meals of 10 and 30 mg: 4 x 10/40 = 1, 4 x 30/40 = 3
+    const two = distributeBinder(
+      rx({ units: 4 }),
+      [meal('Breakfast', 10), meal('Dinner', 30)],
+      thresholds,
+      0,
+    );
+    expect(two.occasions.map((o) => o.units)).toEqual([1, 3]);
   });
 
-  it('per-meal prescriptions: meals only, a low meal gets none and the difference is stated', () => {
+  it('per-meal prescriptions: every meal gets the prescribed units, a low meal is pointed out to the clinician', () => {
     const s = distributeBinder(
       rx({
         ingredient: 'lanthanum-carbonate',
@@ -161,7 +177,9 @@ describe('distribution by largest remainder (worked examples, invented loads)', 
       0,
     );
     expect(s.prescribedUnits).toBe(3); // 1 with each of 3 meals
-    expect(s.occasions.map((o) => o.units)).toEqual([0, 1, 0, 1]);
+    // "1 with each meal" is given whole with Breakfast too, although it carries only 40 mg
+    expect(s.occasions.map((o) => o.units)).toEqual([1, 1, 0, 1]);
+    expect(s.distributedUnits).toBe(3);
     expect(s.occasions[1]?.timing).toMatch(/Chew or crush/);
     expect(s.disagreements.map((d) => [d.code, d.occasion])).toEqual([
       ['meal-under-threshold', 'Breakfast'],

@@ -325,12 +325,14 @@ describe(`confirmed or changed matches are remembered for the clinic (${note})`,
 
 describe(`linked to a patient: days against the targets (${note})`, () => {
   it.skipIf(skip)('checks each day against the targets of computeTargets', async () => {
-    // invented demo patient: 70 kg, CKD 4, no dialysis, no diabetes
+    // invented demo patient: 70 kg, CKD 4, no dialysis, no diabetes; phosphate 5.1 mg/dL is
+    // above 4.6 mg/dL (KDOQI 2003 Guideline 4.1, CKD 3-4), so the phosphorus default applies
     const patient = await new PatientService(db.kysely, clock).create({
       label: 'DEMO-DIARY-1',
       weightKg: 70,
       ckdStage: '4',
       diabetes: false,
+      labs: [{ analyte: 'phosphate', value: 5.1, unit: 'mg/dL', date: '2026-03-01' }],
     });
     const saved = await service.create({
       text: '1 cup whole milk\ncheddar cheese 200 g\n',

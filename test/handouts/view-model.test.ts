@@ -84,7 +84,7 @@ describe('handout view-model (invented demo data)', () => {
           "lines": [
             "3 tabletas al día en total, repartidas entre sus comidas como se indica.",
             "Tómelo con los primeros bocados de la comida.",
-            "Mastíquelo o tráguelo según diga la etiqueta.",
+            "Mastíquelo bien antes de tragarlo.",
           ],
           "name": "carbonato de lantano",
         },

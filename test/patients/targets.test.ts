@@ -37,14 +37,21 @@ describe('protein targets against KDOQI 2020 (Ikizler TA et al., Am J Kidney Dis
 });
 
 describe('other defaults and overrides', () => {
-  it('energy 25-35 kcal/kg (KDOQI 2020), sodium < 2.3 g (KDOQI 2020), phosphorus 800-1,000 mg offered (KDOQI 2003), potassium unset', () => {
-    const t = computeTargets({ ...base, ckdStage: '4', dialysis: 'none', diabetes: false });
+  it('energy 25-35 kcal/kg (KDOQI 2020), sodium < 2.3 g (KDOQI 2020), phosphorus 800-1,000 mg offered (KDOQI 2003) with raised phosphate, potassium unset', () => {
+    const t = computeTargets({
+      ...base,
+      ckdStage: '4',
+      dialysis: 'none',
+      diabetes: false,
+      // invented demo result: 5.0 mg/dL > 4.6 mg/dL (KDOQI 2003 Guideline 4.1, CKD 3-4)
+      labs: [{ analyte: 'phosphate', value: 5.0, unit: 'mg/dL', date: '2026-03-01' }],
+    });
     // 25 x 70 = 1,750 kcal; 35 x 70 = 2,450 kcal
     expect([t.energyKcal.min, t.energyKcal.max]).toEqual([1750, 2450]);
     expect(t.sodiumMg).toMatchObject({ min: null, max: 2300 });
     expect(t.phosphorusMg).toMatchObject({ min: 800, max: 1000, setBy: 'default' });
     expect(t.phosphorusMg.source).toMatch(/2003/);
-    expect(t.phosphorusMg.note).toMatch(/KDOQI 2020 .*individualises/);
+    expect(t.phosphorusMg.note).toMatch(/KDOQI 2020 gives no mg\/day figure/);
     expect(t.potassiumMg).toMatchObject({ min: null, max: null, setBy: 'unset' });
   });
 
@@ -54,6 +61,8 @@ describe('other defaults and overrides', () => {
       ckdStage: '5',
       dialysis: 'hemodialysis',
       diabetes: false,
+      // invented demo result: 1.94 mmol/L x 3.0974 = 6.01 mg/dL > 5.5 mg/dL (KDOQI 2003, CKD 5)
+      labs: [{ analyte: 'phosphate', value: 1.94, unit: 'mmol/L', date: '2026-03-01' }],
       targetOverrides: {
         phosphorusMg: { min: null, max: 900 },
         potassiumMg: { min: null, max: 2500 },
@@ -66,7 +75,12 @@ describe('other defaults and overrides', () => {
       defaultValue: { min: 800, max: 1000 },
     });
     expect(t.phosphorusMg.source).toMatch(/2003/);
-    expect(t.potassiumMg).toMatchObject({ max: 2500, setBy: 'dietitian', defaultValue: null });
+    // hemodialysis offers 2,737 mg (EBPG 2007: 70 mmol x 39.098 mg/mmol); the override keeps it visible
+    expect(t.potassiumMg).toMatchObject({
+      max: 2500,
+      setBy: 'dietitian',
+      defaultValue: { min: null, max: 2737 },
+    });
   });
 });
 

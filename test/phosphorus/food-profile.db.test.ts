@@ -69,15 +69,16 @@ describe('phosphorus profile in the food JSON', () => {
       expect(put.statusCode).toBe(200);
       const res = await ctx.inject({ method: 'GET', url: '/api/foods?q=cola' });
       const hit = res.json()[0];
-      // SR28 14400: 10 mg P, 0.07 g protein: additive 10 - 0.07 x 24.3 = 8.3 mg; ratio undefined
+      // SR28 14400: 10 mg P, 0.07 g protein: the acidulant is the source, so all 10 mg is
+      // additive (E 338, Reg. (EC) 1333/2008 Annex II); ratio undefined
       expect(hit.phosphorus).toMatchObject({
         totalMg: 10,
-        additiveMg: 8.3,
+        additiveMg: 10,
         method: 'generic-rule',
         ratioMgPerG: null,
         ratioBand: 'no-protein',
       });
-      // absorbable typical: 8.30 x 0.5 (clinic override) + 1.70 x 0.5 (plant non-phytate) = 5.0 mg
+      // absorbable typical: 10 x 0.5 (clinic override for additive phosphorus) = 5.0 mg
       expect(hit.phosphorus.absorbableMg.typical).toBeCloseTo(5.0, 1);
     },
   );

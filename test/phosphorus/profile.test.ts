@@ -88,8 +88,10 @@ describe('phosphorus-to-protein ratios recomputed from USDA SR28, against Kalant
       expect(p.evidence.join(' ')).toMatch(/undefined, the food has no protein/);
       expect(p.method).toBe('generic-rule');
       expect(p.additiveLikely).toBe(true);
-      // natural at most 0.07 g x 24.3 mg/g (orange juice, SR28 09206) = 1.70 mg; additive 10 - 1.70 = 8.30 mg
-      expect(p.additiveMg).toBeCloseTo(10 - 0.07 * 24.3, 6);
+      // The acid is the source (E 338, Reg. (EC) 1333/2008 Annex II): all 10 mg is additive; the
+      // trace protein (0.07 g x 24.3 mg/g = 1.70 mg) no longer keeps 17% of it "natural"
+      expect(p.additiveMg).toBe(10);
+      expect(p.organicPlantMg).toBe(0);
       expect(sum(p)).toBeCloseTo(10, 9);
     },
   );

@@ -80,6 +80,9 @@ describe('plan export as FHIR R4, validated by the official R4 JSON schema (@med
       'Protein, at most per day': 74.4,
       // < 2,300 mg sodium (KDOQI 2020)
       'Sodium, at most per day': 2300,
+      // haemodialysis potassium default: 70 mmol x 39.098 mg/mmol = 2,737 mg (EBPG 2007 nutrition
+      // guideline, from memory; the targets module names it)
+      'Potassium, at most per day': 2737,
       // 25-35 kcal/kg: 62 x 25 = 1550, 62 x 35 = 2170 (KDOQI 2020)
       'Energy, at least per day': 1550,
       'Energy, at most per day': 2170,

@@ -272,7 +272,10 @@ describe('patients and plans over HTTP', () => {
         energyKcal: 'below',
         sodiumMg: 'within',
         phosphorusMg: 'above',
-        potassiumMg: 'not-set',
+        // hemodialysis: at most 2,737 mg offered (EBPG 2007, 70 mmol x 39.098 mg/mmol)
+        potassiumMg: 'within',
+        // diet calcium, no calcium binder in this record: under 2,000 mg (KDOQI 2003 Guideline 5)
+        calciumMg: 'within',
       });
       expect(day.status.level).toBe('attention');
       // one day: the plan average equals the day
@@ -498,33 +501,30 @@ describe('patients and plans over HTTP', () => {
       const r = res.json();
       // All are animal foods with the same split here, so shares follow total P / protein:
       // cheddar 01009 455/22.87 = 19.89 mg/g (the reference)
-      // egg white 01124 15/10.90 = 1.376 -> 0.069; cottage 1% 01016 134/12.39 = 10.82 -> 0.544
-      // Greek yogurt 01256 135/10.19 = 13.25 -> 0.666; cottage creamed 01012 159/11.12 = 14.30 -> 0.719
-      // whole egg 01123 198/12.56 = 15.76 -> 0.792
+      // cottage 1% 01016 134/12.39 = 10.82 -> 0.544; cottage creamed 01012 159/11.12 = 14.30 -> 0.719
+      // Greek yogurt 01256 135/10.19 = 13.25 -> 0.666
+      // egg white 01124 and whole egg 01123 are raw (not ready to eat as the cheese is): no swap
       // mozzarella 01026 354/22.17 = 15.97 -> 0.803 > 0.8 (not clearly less); cream cheese 01017 17.4 -> 0.875
       // butter 01001 (0.85 g protein), milk 01077 (3.15 g < 25% of 22.87 g) and apple 09003 (another
-      // group) are not compared. The two cheeses ("Cheese, cottage, ...") come first, as the same
-      // kind of food as "Cheese, cheddar"; then the rest of the group, least first.
+      // group) are not compared. Cheddar carries little potassium (76 / 22.87 = 3.3 mg per g
+      // protein): cottage 1% 2.09x, creamed 2.81x, Greek yogurt 4.16x, all over +20%, so they
+      // are shown only with a potassium caution, the two cheeses first (the same kind of food).
       expect(r.basis).toBe('per-g-protein');
-      expect(r.swaps.map((x: { code: string }) => x.code)).toEqual([
-        '01016',
-        '01012',
-        '01124',
-        '01256',
-        '01123',
+      expect(r.swaps).toEqual([]);
+      expect(r.cautioned.map((x: { code: string }) => x.code)).toEqual(['01016', '01012', '01256']);
+      expect(r.cautioned.map((x: { shareOfOriginal: number }) => x.shareOfOriginal)).toEqual([
+        0.544, 0.719, 0.666,
       ]);
-      expect(r.swaps.map((x: { shareOfOriginal: number }) => x.shareOfOriginal)).toEqual([
-        0.544, 0.719, 0.069, 0.666, 0.792,
+      expect(r.cautioned.map((x: { potassiumShare: number }) => x.potassiumShare)).toEqual([
+        2.089, 2.814, 4.164,
       ]);
-      expect(r.swaps.map((x: { sameKind: boolean }) => x.sameKind)).toEqual([
+      expect(r.cautioned.map((x: { sameKind: boolean }) => x.sameKind)).toEqual([
         true,
         true,
-        false,
-        false,
         false,
       ]);
       const one = await ctx.inject({ method: 'GET', url: `/api/swaps/${cheddar?.id}?limit=1` });
-      expect(one.json().swaps).toHaveLength(1);
+      expect(one.json().cautioned).toHaveLength(1);
       expect((await ctx.inject({ method: 'GET', url: '/api/swaps/999999' })).statusCode).toBe(404);
       expect(
         (await ctx.inject({ method: 'GET', url: `/api/swaps/${cheddar?.id}?limit=6` })).statusCode,

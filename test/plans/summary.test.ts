@@ -42,6 +42,9 @@ const targets = computeTargets({
   dialysis: 'none',
   diabetes: false,
   targetOverrides: {},
+  // Invented demo result: 5.2 mg/dL is above KDOQI 2003's 4.6 mg/dL for CKD 3-4, so the
+  // 800-1,000 mg/day phosphorus default applies.
+  labs: [{ analyte: 'phosphate', value: 5.2, unit: 'mg/dL', date: '2026-03-01' }],
 });
 const settings = { absorption: DEFAULT_ABSORPTION_FRACTIONS, thresholds: DEFAULT_THRESHOLDS };
 

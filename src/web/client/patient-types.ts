@@ -50,6 +50,8 @@ export const TARGET_NAMES: Record<string, string> = {
   sodiumMg: 'Sodium',
   phosphorusMg: 'Phosphorus',
   potassiumMg: 'Potassium',
+  calciumMg: 'Calcium (diet and binder)',
+  fluidMl: 'Fluid allowance',
 };
 
 export function stageText(p: Pick<Patient, 'ckdStage' | 'dialysis'>): string {

@@ -920,8 +920,9 @@ async function showSwaps(c: Contributor): Promise<void> {
                 h(
                   'span',
                   { class: 'muted small' },
-                  ` — ${s.sameKind ? 'same kind of food, ' : ''}${Math.round(s.shareOfOriginal * 100)} % of the original's absorbable phosphorus ${res.basis === 'per-g-protein' ? 'per g protein' : 'per portion'}`,
+                  ` — ${s.sameKind ? 'same kind of food, ' : ''}${Math.round(s.shareOfOriginal * 100)} % of the original's absorbable phosphorus ${res.basis === 'per-g-protein' ? 'per g protein' : 'per portion'}; ${s.proteinOrigin} protein`,
                 ),
+                ...s.cautions.map((text) => h('span', { class: 'caution small' }, ` ${text}`)),
                 ' ',
                 h(
                   'button',
@@ -937,6 +938,16 @@ async function showSwaps(c: Contributor): Promise<void> {
             ),
           ),
       preparedSwapLine(c, res),
+      ...(res.cautioned.length > 0
+        ? [
+            h('h4', {}, 'Only with a caution'),
+            h(
+              'ul',
+              { class: 'swap-list' },
+              res.cautioned.map((s) => h('li', {}, s.name, ` — ${s.cautions.join(' ')}`)),
+            ),
+          ]
+        : []),
       h('p', { class: 'source' }, res.rule),
       h(
         'p',
