@@ -42,7 +42,7 @@ async function loadHighs(): Promise<HighsModule> {
 export async function highsSolver(): Promise<LpSolver> {
   loading ??= loadHighs();
   const highs = await loading;
-  return { solve: (model, options) => solveWith(highs, model, options) };
+  return { name: 'HiGHS', solve: (model, options) => solveWith(highs, model, options) };
 }
 
 const STATUS: Record<string, LpStatus> = {

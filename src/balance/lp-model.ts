@@ -45,6 +45,8 @@ export interface SolveOptions {
 
 /** Anything that solves a model (HiGHS in the product; tests may hand in another). */
 export interface LpSolver {
+  /** The solver's name, shown with its answers. */
+  readonly name: string;
   solve(model: LpModel, options?: SolveOptions): LpResult;
 }
 
@@ -102,7 +104,8 @@ export class LpModel {
   copy(map: (v: VarSpec, id: VarId) => VarSpec = (v) => ({ ...v })): LpModel {
     const m = new LpModel();
     this.vars.forEach((v, i) => m.vars.push(map(v, i)));
-    for (const r of this.rows) m.rows.push({ terms: new Map(r.terms), lower: r.lower, upper: r.upper });
+    for (const r of this.rows)
+      m.rows.push({ terms: new Map(r.terms), lower: r.lower, upper: r.upper });
     m.objectiveOffset = this.objectiveOffset;
     return m;
   }
@@ -177,7 +180,9 @@ export class LpModel {
     for (const [v, c] of terms) {
       if (Math.abs(c) < ZERO_COEF) continue;
       const sign = c < 0 ? '-' : '+';
-      parts.push(`${parts.length === 0 && sign === '+' ? '' : `${sign} `}${num(Math.abs(c))} x${v}`);
+      parts.push(
+        `${parts.length === 0 && sign === '+' ? '' : `${sign} `}${num(Math.abs(c))} x${v}`,
+      );
     }
     return parts.join(' ');
   }
