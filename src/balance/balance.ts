@@ -38,8 +38,8 @@ export const DEFAULT_BALANCING: BalancingSettings = {
   minShare: 0.5, // common practice, no source
   maxShare: 2, // common practice, no source
   maxNewFoodsPerDay: 2, // common practice, no source
-  deviationPenaltyMgPer100g: 2, // common practice, no source: small beside 20-300 mg absorbable P per 100 g of protein foods
-  newFoodPenaltyMg: 5, // common practice, no source
+  deviationPenaltyMgPer100g: 10, // common practice, no source: below the 20-300 mg absorbable P per 100 g of protein foods, above fruit and vegetables
+  newFoodPenaltyMg: 20, // common practice, no source
   mealProteinMinShare: null, // off unless the clinic sets it (e.g. 0.2)
   calciumMaxMg: null, // off unless the clinic sets it
   candidateMaxGrams: 250, // common practice, no source

@@ -45,7 +45,6 @@ const LIMIT_WORDS: Record<LimitKey, { what: string; step: number; unit: string; 
   'mealProtein.min': { what: 'protein at this meal', step: 1, unit: 'g', min: true },
 };
 
-const round = (x: number, to: number) => Math.round(x / to) * to;
 const r1 = (x: number) => Math.round(x * 10) / 10;
 /** Strips floating-point noise from sums of steps (0.1 + 0.2) without moving real amounts. */
 const clean = (x: number) => Math.round(x * 1e6) / 1e6;
@@ -215,7 +214,7 @@ function bindingOf(problem: BalanceProblem, solved: Solved): BindingLimit[] {
     const dual = solved.duals[l.row] ?? 0;
     if (Math.abs(dual) < 1e-6) continue;
     const w = LIMIT_WORDS[l.key];
-    const price = round(Math.abs(dual) * w.step, 0.1);
+    const price = r1(Math.abs(dual) * w.step);
     const stepText = `${w.step} ${w.unit}`;
     const where =
       l.occasion === null

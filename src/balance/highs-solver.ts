@@ -81,7 +81,10 @@ function solveWith(highs: HighsModule, model: LpModel, options: SolveOptions = {
   const { text, lpRows } = model.toLpText();
   const opts: Record<string, unknown> = { output_flag: false };
   if (options.timeLimitS !== undefined) opts.time_limit = options.timeLimitS;
-  if (isMip) opts.mip_rel_gap = options.mipRelGap ?? 1e-6;
+  if (isMip) {
+    opts.mip_rel_gap = options.mipRelGap ?? 1e-6;
+    if (options.mipAbsGap !== undefined) opts.mip_abs_gap = options.mipAbsGap;
+  }
   const answer = highs.solve(text, opts);
   const status = STATUS[answer.Status] ?? 'error';
   if (status !== 'optimal' && status !== 'limit') return failed(status, answer.Status);

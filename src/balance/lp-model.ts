@@ -41,6 +41,8 @@ export interface LpResult {
 export interface SolveOptions {
   timeLimitS?: number;
   mipRelGap?: number;
+  /** Absolute MIP gap in objective units. */
+  mipAbsGap?: number;
 }
 
 /** Anything that solves a model (HiGHS in the product; tests may hand in another). */

@@ -5,6 +5,11 @@
  */
 import type { z } from 'zod';
 import {
+  BALANCING_SOURCES,
+  DEFAULT_BALANCING,
+  balancingSettingsSchema,
+} from '../balance/balance.js';
+import {
   ABSORPTION_SOURCES,
   DEFAULT_ABSORPTION_FRACTIONS,
   absorptionFractionsSchema,
@@ -54,6 +59,15 @@ export const SETTINGS = {
       .join(' | '),
     description:
       'Cut-offs for binder pairing (minimum and high-load absorbable P per occasion), the high-ratio flag, swaps and contributors.',
+  }),
+  balancing: defineSetting({
+    schema: balancingSettingsSchema,
+    default: DEFAULT_BALANCING,
+    source: Object.entries(BALANCING_SOURCES)
+      .map(([k, v]) => `${k}: ${v}`)
+      .join(' | '),
+    description:
+      'How plan balancing moves amounts (whole or half household measures, gram steps, allowed range), how many new foods a day may gain, the closeness penalty, and optional per-meal protein and calcium rules.',
   }),
 } as const;
 
