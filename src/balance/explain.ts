@@ -191,10 +191,12 @@ function relaxedOf(problem: BalanceProblem, solved: Solved, after: PlanSummary):
   for (const l of solved.model.limits) {
     if (l.slack === null || solved.values[l.slack]! <= 1e-6) continue;
     const day = after.days[l.day] as DaySummary;
+    if (metInSummary(day, l, share)) continue; // the slack only took up the model's safety margin
     const w = LIMIT_WORDS[l.key];
     const v = summaryValue(day, l, share);
     const by = Math.max(0, w.min ? l.bound - v : v - l.bound);
-    const byShown = w.unit === 'g' ? r1(by) : Math.round(by);
+    // small misses keep two decimals, so a real miss never reads as 0
+    const byShown = by < 1 ? Math.ceil(by * 100) / 100 : w.unit === 'g' ? r1(by) : Math.round(by);
     out.push({
       limit: limitName(problem, l),
       by: byShown,
