@@ -27,6 +27,7 @@ import type {
   TargetCheck,
 } from '../summary-types.js';
 import { attachTypeahead, type FoodHit } from '../typeahead.js';
+import { initBalancePanel } from '../balance-panel.js';
 
 initChrome();
 
@@ -978,3 +979,11 @@ async function start(): Promise<void> {
   if (!byId('day-panel').contains(document.activeElement)) renderMeals();
 }
 void start();
+
+initBalancePanel({
+  planId,
+  activeDay: () => activeDay,
+  dayLabel: (d) => draft.days[d]?.label ?? `day ${d + 1}`,
+  readOnly: pastVersion !== null,
+  onAccepted: start,
+});
