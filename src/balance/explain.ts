@@ -114,9 +114,9 @@ function proposalOf(problem: BalanceProblem, solved: Solved): PlanInput {
     }),
   }));
   const which =
-    problem.days.length === problem.plan.days.length
+    problem.days.length === problem.plan.days.length && problem.days.length > 1
       ? 'the whole plan'
-      : `day ${problem.days.map((d) => d + 1).join(', ')}`;
+      : `day${problem.days.length > 1 ? 's' : ''} ${problem.days.map((d) => d + 1).join(', ')}`;
   return {
     name: problem.plan.name,
     days,

@@ -94,6 +94,9 @@ export function randomProblem(
   const candidates: PlacedCandidate[] = [];
   let protein = 0;
   let energy = 0;
+  let sodium = 0;
+  let potassium = 0;
+  let phosphorus = 0;
   for (let d = 0; d < shape.days; d++) {
     const occ = occasions.map((name) => ({
       name,
@@ -121,12 +124,18 @@ export function randomProblem(
       });
       protein += ((f.per100g.proteinG ?? 0) * grams) / 100;
       energy += ((f.per100g.energyKcal ?? 0) * grams) / 100;
+      sodium += ((f.per100g.sodiumMg ?? 0) * grams) / 100;
+      potassium += ((f.per100g.potassiumMg ?? 0) * grams) / 100;
+      phosphorus += ((f.per100g.phosphorusMg ?? 0) * grams) / 100;
     }
     for (let c = 0; c < shape.candidates; c++) {
       candidates.push({ foodId: newFood().id, day: d, occasion: Math.floor(rnd() * occ.length) });
     }
     plan.days.push({ label: `Day ${d + 1}`, occasions: occ });
   }
+  // limits drawn around the plan's own daily totals: some met as it stands, some not
+  const around = (total: number, lo: number, span: number) =>
+    Math.round((total / shape.days) * (lo + rnd() * span));
   const perDayProtein = protein / shape.days;
   const perDayEnergy = energy / shape.days;
   const pMin = Math.round(perDayProtein * (0.7 + rnd() * 0.6));
@@ -139,12 +148,12 @@ export function randomProblem(
     targetOverrides: {
       proteinG: { min: pMin, max: Math.round(pMin * (1.2 + rnd() * 0.5)) },
       energyKcal: { min: eMin, max: Math.round(eMin * (1.3 + rnd())) },
-      sodiumMg: { min: null, max: Math.round(800 + rnd() * 2000) },
+      sodiumMg: { min: null, max: Math.max(1, around(sodium, 0.8, 0.8)) },
       potassiumMg:
         rnd() < 0.5
-          ? { min: null, max: Math.round(1000 + rnd() * 2500) }
+          ? { min: null, max: Math.max(1, around(potassium, 0.8, 0.8)) }
           : { min: null, max: null },
-      phosphorusMg: { min: null, max: Math.round(500 + rnd() * 1000) },
+      phosphorusMg: { min: null, max: Math.max(1, around(phosphorus, 0.7, 0.6)) },
     },
   });
   return {

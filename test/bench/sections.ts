@@ -7,6 +7,7 @@ import { webBench } from './web.js';
 import { loadBench } from './load.js';
 import { handoutsBench } from './handouts.js';
 import { diaryBench } from './diary.js';
+import { balanceBench } from './balance.js';
 
 /** One benchmark section; each area adds its own file and registers it here. */
 export interface BenchSection {
@@ -24,3 +25,4 @@ sections.push(importBench);
 sections.push(handoutsBench);
 sections.push(diaryBench);
 sections.push(searchBench);
+sections.push(balanceBench);
