@@ -25,14 +25,6 @@ export interface PerGram {
   calciumMg: number;
 }
 type Nut = Exclude<keyof PerGram, 'absorbable'>;
-const NUTS: Nut[] = [
-  'phosphorusMg',
-  'proteinG',
-  'energyKcal',
-  'sodiumMg',
-  'potassiumMg',
-  'calciumMg',
-];
 
 /** Grams of one slot: constant + sum(coef x var). */
 interface Expr {

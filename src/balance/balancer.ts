@@ -19,7 +19,7 @@ import {
 } from './balance.js';
 import { buildBalanceModel, type BalanceModel } from './balance-model.js';
 import { describeResult, type Solved } from './explain.js';
-import type { LpResult, LpSolver } from './lp-model.js';
+import { solveByBlocks, type LpResult, type LpSolver } from './lp-model.js';
 
 export interface BalanceProblem {
   plan: PlanContent;
@@ -38,7 +38,7 @@ export interface BalanceProblem {
 }
 
 /** Seconds one MIP may take before the best plan found so far is used. */
-const TIME_LIMIT_S = 10;
+const TIME_LIMIT_S = 5;
 /**
  * The search stops within 0.1% (or 0.1 mg) of the best possible plan: absorbable phosphorus is
  * an estimate good to tens of percent, and proving the last 0.1% costs most of the time.
@@ -62,7 +62,10 @@ function feasibleAt(m: BalanceModel, x: Float64Array): boolean {
 }
 
 function solveMip(solver: LpSolver, m: BalanceModel): LpResult {
-  const r = solver.solve(m.lp, {
+  // No answer exists when even the continuous relaxation has none: skip the integer search.
+  const relaxed = solveByBlocks(solver, m.lp.relaxed());
+  if (relaxed.status === 'infeasible') return relaxed;
+  const r = solveByBlocks(solver, m.lp, {
     timeLimitS: TIME_LIMIT_S,
     mipRelGap: MIP_REL_GAP,
     mipAbsGap: MIP_ABS_GAP_MG,
@@ -93,7 +96,7 @@ function pricingDuals(solver: LpSolver, m: BalanceModel, mip: LpResult): Float64
         }
       : { ...v, integer: false },
   );
-  const r = solver.solve(lp);
+  const r = solveByBlocks(solver, lp);
   return r.status === 'optimal' ? r.rowDuals : null;
 }
 

@@ -189,3 +189,113 @@ export class LpModel {
     return parts.join(' ');
   }
 }
+
+/** One independent block of a model: its own sub-model and where its variables and rows came from. */
+export interface Block {
+  model: LpModel;
+  vars: VarId[];
+  rows: RowId[];
+}
+
+/**
+ * Splits a model into blocks that share no row (union-find over the variables of each row).
+ * Solving the blocks one by one gives the same optimum as solving the whole (the objective is a
+ * sum over variables, and no row links two blocks), and a search over a product of small
+ * programmes is far cheaper block by block.
+ */
+export function splitBlocks(model: LpModel): Block[] {
+  const parent = model.vars.map((_, i) => i);
+  const find = (i: number): number => {
+    while (parent[i] !== i) {
+      parent[i] = parent[parent[i]!]!;
+      i = parent[i]!;
+    }
+    return i;
+  };
+  for (const r of model.rows) {
+    let first: number | null = null;
+    for (const v of r.terms.keys()) {
+      if (first === null) first = find(v);
+      else parent[find(v)] = first;
+    }
+  }
+  const byRoot = new Map<number, Block>();
+  const blockOf = (v: VarId): Block => {
+    const root = find(v);
+    let b = byRoot.get(root);
+    if (!b) byRoot.set(root, (b = { model: new LpModel(), vars: [], rows: [] }));
+    return b;
+  };
+  const local = new Map<VarId, VarId>();
+  model.vars.forEach((spec, v) => {
+    const b = blockOf(v);
+    local.set(v, b.model.addVar({ ...spec }));
+    b.vars.push(v);
+  });
+  model.rows.forEach((r, i) => {
+    const firstVar = r.terms.keys().next();
+    if (firstVar.done) return; // a constant row: checked by the solver on the whole model
+    const b = blockOf(firstVar.value);
+    b.model.addRow(
+      [...r.terms].map(([v, c]): [VarId, number] => [local.get(v) as VarId, c]),
+      r.lower,
+      r.upper,
+    );
+    b.rows.push(i);
+  });
+  return [...byRoot.values()];
+}
+
+/** Solves a model block by block and puts the answers back in the model's own numbering. */
+export function solveByBlocks(solver: LpSolver, model: LpModel, options?: SolveOptions): LpResult {
+  const values = new Float64Array(model.vars.length);
+  const constantRowBroken = model.rows.some(
+    (r) => r.terms.size === 0 && (r.lower > 1e-9 || r.upper < -1e-9),
+  );
+  if (constantRowBroken) {
+    return {
+      status: 'infeasible',
+      solverStatus: 'Infeasible (constant row)',
+      objective: NaN,
+      values,
+      activity: new Float64Array(model.rows.length),
+      rowDuals: null,
+    };
+  }
+  const blocks = splitBlocks(model);
+  const isMip = model.vars.some((v) => v.integer);
+  const rowDuals = isMip ? null : new Float64Array(model.rows.length);
+  const statuses: string[] = [];
+  let status: LpStatus = 'optimal';
+  for (const b of blocks) {
+    const only = b.model.vars[0]!;
+    if (
+      b.rows.length === 0 &&
+      b.vars.length === 1 &&
+      Number.isFinite(only.cost >= 0 ? only.lower : only.upper)
+    ) {
+      // a variable in no row sits at its cheaper bound: no solver call needed
+      values[b.vars[0]!] = only.cost >= 0 ? only.lower : only.upper;
+      continue;
+    }
+    const r = solver.solve(b.model, options);
+    statuses.push(r.solverStatus);
+    if (r.status !== 'optimal' && r.status !== 'limit') {
+      return { ...r, values, activity: new Float64Array(model.rows.length), rowDuals: null };
+    }
+    if (r.status === 'limit') status = 'limit';
+    b.vars.forEach((v, k) => (values[v] = r.values[k]!));
+    if (rowDuals && r.rowDuals) b.rows.forEach((row, k) => (rowDuals[row] = r.rowDuals![k]!));
+  }
+  const activity = new Float64Array(model.rows.length);
+  for (let r = 0; r < model.rows.length; r++) activity[r] = model.rowValue(r, values);
+  const worst = statuses.find((s) => s !== 'Optimal') ?? 'Optimal';
+  return {
+    status,
+    solverStatus: worst,
+    objective: model.objectiveAt(values),
+    values,
+    activity,
+    rowDuals,
+  };
+}

@@ -9,7 +9,12 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { buildBalanceModel } from '../../src/balance/balance-model.js';
 import { balancePlan, type BalanceProblem } from '../../src/balance/balancer.js';
 import { highsSolver } from '../../src/balance/highs-solver.js';
-import type { LpModel, LpSolver } from '../../src/balance/lp-model.js';
+import {
+  solveByBlocks,
+  splitBlocks,
+  type LpModel,
+  type LpSolver,
+} from '../../src/balance/lp-model.js';
 import { resolvePlan } from '../../src/plans/plan.js';
 import { summarizePlan } from '../../src/plans/summary.js';
 import { randomProblem, seeded } from './random-plans.js';
@@ -137,5 +142,21 @@ describe('HiGHS and javascript-lp-solver agree on 200 random LP relaxations (inv
     );
     expect(statuses.has('optimal')).toBe(true);
     expect(statuses.has('relaxed')).toBe(true);
+  });
+
+  it('solves a several-day plan block by block to the same optimum as the whole programme', () => {
+    // Days share no row, so the whole LP relaxation and its day blocks must agree.
+    const rnd = seeded(3);
+    for (let n = 0; n < 20; n++) {
+      const p = randomProblem(rnd, { days: 2 + (n % 3), items: 4, candidates: 2 });
+      const lp = modelOf(p, true).relaxed();
+      expect(splitBlocks(lp).length).toBeGreaterThanOrEqual(p.plan.days.length);
+      const whole = highs.solve(lp);
+      const blocks = solveByBlocks(highs, lp);
+      expect(blocks.status).toBe(whole.status);
+      const rel =
+        Math.abs(whole.objective - blocks.objective) / Math.max(1, Math.abs(whole.objective));
+      expect(rel).toBeLessThan(1e-6);
+    }
   });
 });
