@@ -79,8 +79,10 @@ export interface ModelInput {
   robust: boolean;
   choices: readonly ItemChoice[];
   candidates: readonly PlacedCandidate[];
-  /** Add penalised slacks to every limit row (the elastic model). */
+  /** Add penalised slacks to every limit row (the elastic model)... */
   elastic: boolean;
+  /** ...of these days only (0-based; all balanced days when absent). */
+  elasticDays?: ReadonlySet<number>;
 }
 
 /** Limits sit this far inside their bound so rounding in the solver never tips the re-check. */
@@ -346,14 +348,15 @@ export function buildBalanceModel(input: ModelInput): BalanceModel {
     lp.objectiveOffset += obj.constant;
     for (const [v, k] of obj.terms) lp.addCost(v, k);
     for (const s of daySlots) addDeviation(lp, s, mgPerG);
+    const elastic = input.elastic && (input.elasticDays?.has(d) ?? true);
     for (const [key, nut, bound, unit] of dayLimits(input.targets, input.settings))
       addLimit(
         m,
-        input.elastic,
+        elastic,
         { key, day: d, occasion: null, bound, unit },
         sumOver(daySlots, (s) => per(s.foodId)[nut]),
       );
-    addMealRules(m, input, d, daySlots, per);
+    addMealRules(m, { ...input, elastic }, d, daySlots, per);
     m.slots.push(...daySlots);
   }
   return m;

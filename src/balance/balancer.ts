@@ -19,7 +19,7 @@ import {
 } from './balance.js';
 import { buildBalanceModel, type BalanceModel } from './balance-model.js';
 import { describeResult, type Solved } from './explain.js';
-import { solveByBlocks, type LpResult, type LpSolver } from './lp-model.js';
+import { solveByBlocks, splitBlocks, type LpResult, type LpSolver } from './lp-model.js';
 
 export interface BalanceProblem {
   plan: PlanContent;
@@ -100,6 +100,24 @@ function pricingDuals(solver: LpSolver, m: BalanceModel, mip: LpResult): Float64
   return r.status === 'optimal' ? r.rowDuals : null;
 }
 
+/**
+ * The days whose limits no plan can meet even in continuous amounts (their block of the LP
+ * relaxation has no answer, or a limit on fixed amounts only is broken): only those get slacks.
+ */
+function daysWithoutAnswer(solver: LpSolver, m: BalanceModel): Set<number> {
+  const dayOfRow = new Map(m.limits.map((l) => [l.row, l.day]));
+  const days = new Set<number>();
+  m.lp.rows.forEach((r, i) => {
+    const broken = r.terms.size === 0 && (r.lower > 1e-9 || r.upper < -1e-9);
+    if (broken && dayOfRow.has(i)) days.add(dayOfRow.get(i)!);
+  });
+  for (const b of splitBlocks(m.lp.relaxed())) {
+    if (b.rows.length === 0 || solver.solve(b.model).status !== 'infeasible') continue;
+    for (const row of b.rows) if (dayOfRow.has(row)) days.add(dayOfRow.get(row)!);
+  }
+  return days;
+}
+
 /** Balances the chosen days; throws only for a solver failure or a proposal the summary refutes. */
 export function balancePlan(problem: BalanceProblem, solver: LpSolver): BalanceResult {
   const t0 = performance.now();
@@ -119,8 +137,18 @@ export function balancePlan(problem: BalanceProblem, solver: LpSolver): BalanceR
   let elastic = false;
   if (mip.status === 'infeasible') {
     elastic = true;
-    model = buildBalanceModel({ ...base, elastic: true });
+    const days = daysWithoutAnswer(solver, model);
+    model = buildBalanceModel({
+      ...base,
+      elastic: true,
+      ...(days.size > 0 ? { elasticDays: days } : {}),
+    });
     mip = solveMip(solver, model);
+    if (mip.status === 'infeasible' && days.size > 0) {
+      // a day whose relaxation has an answer but whose whole steps do not: every day elastic
+      model = buildBalanceModel({ ...base, elastic: true });
+      mip = solveMip(solver, model);
+    }
   }
   if (mip.status !== 'optimal' && mip.status !== 'limit') {
     throw new AppError(

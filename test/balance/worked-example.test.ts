@@ -177,4 +177,33 @@ describe('worked example: three foods balanced by hand (invented demo data)', ()
     expect(r.status).toBe('unchanged');
     expect(r.changes).toEqual([]);
   });
+
+  it('relaxes only the day that cannot meet its limits when the whole plan is balanced', () => {
+    // Day 2 is rice alone, kept: 200 g x 0.025 = 5 g protein, 24.9 g short of 29.9 g whatever
+    // happens; day 1 is balanced exactly as above (egg white 200 g, cheese 20 g).
+    const twoDays: PlanContent = {
+      ...plan,
+      days: [
+        plan.days[0]!,
+        {
+          label: 'Day 2',
+          occasions: [{ name: 'Lunch', kind: 'meal', time: null, items: [item(3, 200)] }],
+        },
+      ],
+    };
+    const r = balancePlan(
+      problem({
+        plan: twoDays,
+        days: [0, 1],
+        choices: [...problem().choices, { day: 2, occasion: 1, item: 1, mode: 'keep' }],
+      }),
+      solver,
+    );
+    expect(r.status).toBe('relaxed');
+    expect(r.relaxed).toEqual([
+      expect.objectContaining({ limit: 'day 2 proteinG.min', by: 24.9, unit: 'g' }),
+    ]);
+    expect(r.days[0]!.after.proteinG).toBe(30);
+    expect(r.days[0]!.after.absorbablePhosphorusMg.typical).toBe(170);
+  });
 });
