@@ -715,7 +715,7 @@ function summarizeBinders(
 }
 
 /** Elemental calcium from the prescribed binder on one day, mg (per-meal: units x the meals). */
-function binderCalciumMg(
+export function binderCalciumMg(
   binder: BinderPrescription | null,
   occasions: readonly { kind: 'meal' | 'snack' }[],
 ): number {

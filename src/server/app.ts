@@ -16,6 +16,7 @@ import { patientRoutes } from '../patients/patients.routes.js';
 import { labRoutes } from '../patients/labs.routes.js';
 import { planFhirRoutes } from '../plans/fhir-export.routes.js';
 import { planRoutes } from '../plans/plans.routes.js';
+import { balanceRoutes } from '../balance/balance.routes.js';
 import { diaryRoutes } from '../diary/diary.routes.js';
 import { additivesRoutes } from '../additives/additives.routes.js';
 import { settingsRoutes } from '../settings/settings.routes.js';
@@ -94,6 +95,7 @@ export async function buildApp(deps: AppDeps): Promise<App> {
   await app.register(labRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(planRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(planFhirRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
+  await app.register(balanceRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(diaryRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(additivesRoutes, { prefix: '/api' });
   await app.register(settingsRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });

@@ -6,6 +6,11 @@
 import type { z } from 'zod';
 import type { Role } from '../auth/auth.js';
 import {
+  BALANCING_SOURCES,
+  DEFAULT_BALANCING,
+  balancingSettingsSchema,
+} from '../balance/balance.js';
+import {
   ABSORPTION_SOURCES,
   DEFAULT_ABSORPTION_FRACTIONS,
   absorptionFractionsSchema,
@@ -102,6 +107,16 @@ export const SETTINGS = {
       .join(' | '),
     description:
       'Reference or target band per lab result (canonical units: phosphate and calcium mg/dL, PTH pg/mL, albumin g/dL, potassium and bicarbonate mmol/L, 25-OH vitamin D ng/mL), off and on dialysis, drawn behind the trend charts.',
+    editableBy: 'admin',
+  }),
+  balancing: defineSetting({
+    schema: balancingSettingsSchema,
+    default: DEFAULT_BALANCING,
+    source: Object.entries(BALANCING_SOURCES)
+      .map(([k, v]) => `${k}: ${v}`)
+      .join(' | '),
+    description:
+      'How plan balancing moves amounts (whole or half household measures, gram steps, allowed range), how many new foods a day may gain, the closeness penalty, and optional per-meal protein and calcium rules.',
     editableBy: 'admin',
   }),
 } as const;

@@ -9,6 +9,7 @@ import { handoutsBench } from './handouts.js';
 import { diaryBench } from './diary.js';
 import { startupBench } from './startup.js';
 import { searchListBench } from './search-list.js';
+import { balanceBench } from './balance.js';
 
 /** One benchmark section; each area adds its own file and registers it here. */
 export interface BenchSection {
@@ -28,3 +29,4 @@ sections.push(diaryBench);
 sections.push(searchBench);
 sections.push(startupBench);
 sections.push(searchListBench);
+sections.push(balanceBench);

@@ -60,6 +60,10 @@ export const commandModules: readonly CommandModule[] = [
     load: async () => (await import('../../handouts/handouts.command.js')).handoutCommands,
   },
   {
+    firstWords: ['plan'],
+    load: async () => [(await import('../../balance/balance.command.js')).planBalance],
+  },
+  {
     firstWords: ['labs'],
     load: async () => (await import('../../patients/labs.command.js')).labCommands,
   },

@@ -13,6 +13,7 @@ export const endpoints = {
   planVersions: (id: string | number) => `/api/plans/${id}/versions`,
   planVersion: (id: string | number, version: number) => `/api/plans/${id}/versions/${version}`,
   planBinders: (id: string | number) => `/api/plans/${id}/binders`,
+  planBalance: (id: string | number) => `/api/plans/${id}/balance`,
   swaps: (foodId: number, limit = 5) => `/api/swaps/${foodId}?limit=${limit}`,
   food: (id: number) => `/api/foods/${id}`,
   handoutHtml: (planId: string | number, lang: string, version?: number | null) =>

@@ -28,6 +28,7 @@ import type {
 } from '../summary-types.js';
 import { attachTypeahead, type FoodHit } from '../typeahead.js';
 import type { TypicalUnit } from '../../../foods/unit-weights.js';
+import { initBalancePanel } from '../balance-panel.js';
 
 initChrome();
 
@@ -1194,3 +1195,11 @@ async function start(): Promise<void> {
   if (!byId('day-panel').contains(document.activeElement)) renderMeals();
 }
 void start();
+
+initBalancePanel({
+  planId,
+  activeDay: () => activeDay,
+  dayLabel: (d) => draft.days[d]?.label ?? `day ${d + 1}`,
+  readOnly: pastVersion !== null,
+  onAccepted: start,
+});
