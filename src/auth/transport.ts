@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import type { FastifyInstance } from 'fastify';
 import { isLoopbackAddress } from './addresses.js';
-import { announceSetup } from './setup.routes.js';
+import { announceSetup } from './setup-link.js';
 
 export interface TlsFiles {
   tlsCert?: string | undefined;

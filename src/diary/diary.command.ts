@@ -4,7 +4,7 @@ import { UsageError, type Command } from '../cli/command.js';
 import { AppError } from '../errors.js';
 import { PatientService } from '../patients/patients.service.js';
 import { DiaryAuditService, type AuditInput } from './diary.service.js';
-import { toAuditJson } from './diary.routes.js';
+import { toAuditJson } from './diary.json.js';
 import { DIARY_LIMITS } from './reader.js';
 import { renderDiaryReportPdf } from './report-pdf.js';
 import { diaryReportView } from './report-view.js';

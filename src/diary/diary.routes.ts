@@ -1,3 +1,4 @@
+import { toAuditJson } from './diary.json.js';
 import multipart from '@fastify/multipart';
 import type { FastifyPluginAsync, FastifyRequest } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
@@ -7,7 +8,7 @@ import type { Db } from '../db/database.js';
 import { AppError, BadRequestError } from '../errors.js';
 import { PatientService } from '../patients/patients.service.js';
 import '../patients/patients.routes.js';
-import { DiaryAuditService, type AuditInput, type SavedAudit } from './diary.service.js';
+import { DiaryAuditService, type AuditInput } from './diary.service.js';
 import { DIARY_LIMITS } from './reader.js';
 import { renderDiaryReportHtml } from './report-html.js';
 import { renderDiaryReportPdf } from './report-pdf.js';
@@ -55,16 +56,6 @@ export const changeMatchBodySchema = z
     quantity: z.string().trim().min(1).max(100).optional(),
   })
   .strict();
-
-export function toAuditJson(a: SavedAudit) {
-  return {
-    id: a.id,
-    patientId: a.patientId,
-    createdAt: a.createdAt,
-    updatedAt: a.updatedAt,
-    ...a.report,
-  };
-}
 
 async function readUpload(req: FastifyRequest): Promise<AuditInput> {
   const fields: Record<string, string> = {};

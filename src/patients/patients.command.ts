@@ -5,7 +5,7 @@ import { systemClock } from '../clock.js';
 import { AppError } from '../errors.js';
 import { UsageError, type Command } from '../cli/command.js';
 import { PatientService } from './patients.service.js';
-import { toPatientJson } from './patients.routes.js';
+import { toPatientJson } from './patient.json.js';
 
 export const patientList: Command = {
   path: ['patient', 'list'],

@@ -3,19 +3,15 @@ import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
 import type { Clock } from '../clock.js';
 import type { Db } from '../db/database.js';
-import { patientInputSchema, patientUpdateSchema, type Patient } from './patient.js';
+import { patientInputSchema, patientUpdateSchema } from './patient.js';
 import { PatientService } from './patients.service.js';
-import { TARGETS_CAUTION, computeTargets } from './targets.js';
+import { toPatientJson } from './patient.json.js';
 
 declare module 'fastify' {
   interface FastifyContextConfig {
     /** The route reads or writes patient data (health information): guarded and audited. */
     patientData?: boolean;
   }
-}
-
-export function toPatientJson(p: Patient) {
-  return { ...p, targets: computeTargets(p), targetsCaution: TARGETS_CAUTION };
 }
 
 const idParams = z.object({ id: z.coerce.number().int().positive() });
