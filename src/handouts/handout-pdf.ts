@@ -55,6 +55,45 @@ function drawBand(flow: PdfFlow, vm: HandoutViewModel): void {
   );
 }
 
+/** The cover's who/when box in two pairs of columns (a one-day plan's shorter cover). */
+function drawInfoCompact(flow: PdfFlow, vm: HandoutViewModel): void {
+  const label = style(TYPE.body, 'bold', THEME.muted);
+  const value = style(TYPE.body);
+  const rows: string[][] = [
+    [vm.strings.forLabel, vm.header.patientLabel, vm.strings.dateLabel, vm.header.dateText],
+    [
+      vm.strings.dietitianLabel,
+      vm.header.dietitianName,
+      vm.strings.clinicLabel,
+      vm.header.clinicName,
+    ],
+    [vm.strings.contactLabel, vm.header.clinicContact, '', ''],
+  ];
+  const columns: TableColumn[] = [
+    { share: 0.16, style: label },
+    { share: 0.34, style: value },
+    { share: 0.16, style: label },
+    { share: 0.34, style: value },
+  ];
+  const inner = flow.width - 16;
+  const h =
+    rows.reduce((sum, row) => {
+      const lines = row.map(
+        (text, i) =>
+          flow.wrap(text, i % 2 ? value : label, inner * (columns[i] as TableColumn).share - 8)
+            .length,
+      );
+      return sum + Math.max(1, ...lines) * flow.lineHeight(TYPE.body) + 8;
+    }, 0) + 12;
+  const top = flow.y;
+  flow.doc.roundedRect(flow.left, top, flow.width, h, 8).fill(THEME.brandPale);
+  flow.y += 6;
+  drawTable(flow, columns, rows, { x: 8, width: inner, padPt: 4 });
+  flow.y = top + h + 10;
+  flow.paragraph(vm.strings.subtitle, style(TYPE.subheading, 'bold', THEME.brand), { gapAfter: 2 });
+  flow.paragraph(vm.strings.howToRead, style(TYPE.body), { gapAfter: 8 });
+}
+
 function drawInfo(flow: PdfFlow, vm: HandoutViewModel): void {
   const label = style(TYPE.body, 'bold', THEME.muted);
   const value = style(TYPE.body);
@@ -141,22 +180,39 @@ function drawPill(flow: PdfFlow, logicalX: number, y: number): void {
   doc.restore();
 }
 
-function drawOccasion(flow: PdfFlow, occ: OccasionVm): void {
+/** Where an occasion box goes across the page (logical x from the start side, width), in pt. */
+interface Slot {
+  x: number;
+  width: number;
+}
+
+const ITEM_COLS: TableColumn[] = [
+  { share: 0.62, style: style(TYPE.body) },
+  { share: 0.38, style: style(TYPE.body, 'bold'), align: 'end' },
+];
+
+function slotInner(slot: Slot): number {
+  return slot.width - 5 - 2 * 10;
+}
+
+function drawOccasion(
+  flow: PdfFlow,
+  occ: OccasionVm,
+  slot: Slot = { x: 0, width: flow.width },
+  fixedHeightPt?: number,
+): void {
   const stripe = 5;
   const pad = 10;
-  const inner = flow.width - stripe - 2 * pad;
-  const itemCols: TableColumn[] = [
-    { share: 0.62, style: style(TYPE.body) },
-    { share: 0.38, style: style(TYPE.body, 'bold'), align: 'end' },
-  ];
-  const h = occasionHeight(flow, occ, itemCols, inner);
+  const inner = slotInner(slot);
+  const itemCols = ITEM_COLS;
+  const h = fixedHeightPt ?? occasionHeight(flow, occ, itemCols, inner);
   flow.ensure(h + 6);
   const top = flow.y;
   const doc = flow.doc;
-  doc.roundedRect(flow.left, top, flow.width, h, 6).fill(THEME.brandPale);
-  doc.rect(flow.phys(0, stripe), top, stripe, h).fill(THEME.brand);
+  doc.roundedRect(flow.phys(slot.x, slot.width), top, slot.width, h, 6).fill(THEME.brandPale);
+  doc.rect(flow.phys(slot.x, stripe), top, stripe, h).fill(THEME.brand);
   flow.y = top + 5;
-  const x = stripe + pad;
+  const x = slot.x + stripe + pad;
   const absorbed = style(TYPE.small, 'regular', THEME.muted);
   if (titleShares(flow, occ, inner)) {
     const y = flow.y;
@@ -215,8 +271,12 @@ export async function renderHandoutPdf(
         f.paragraph(continued, style(TYPE.subheading, 'bold', THEME.brand), { gapAfter: 6 });
     },
   });
+  // A one-day plan runs on after the cover and keeps "foods to watch" on the same sheet, so it
+  // prints on two pages; longer plans give each day a page of its own.
+  const oneDay = vm.days.length === 1;
   flow.newPage();
-  drawInfo(flow, vm);
+  if (oneDay) drawInfoCompact(flow, vm);
+  else drawInfo(flow, vm);
 
   heading(flow, vm.binder.heading);
   for (const line of vm.binder.lines) flow.paragraph(line, style(TYPE.body), { gapAfter: 2 });
@@ -224,25 +284,45 @@ export async function renderHandoutPdf(
   drawCautionBox(flow, vm.cautions.heading, vm.cautions.lines);
 
   for (const day of vm.days) {
-    flow.newPage();
+    if (oneDay) {
+      flow.y += 6;
+      flow.ensure(flow.lineHeight(TYPE.heading) * 2 + flow.lineHeight(TYPE.body) * 4);
+    } else flow.newPage();
     heading(flow, day.label ? `${day.heading}: ${day.label}` : day.heading);
     flow.paragraph(day.totalLine, style(TYPE.body), { gapAfter: 8 });
-    // The chart comes first so it stays with the day's heading; the meals flow after it.
-    drawAbsorbableChart(flow, day.chart);
-    flow.y += 6;
     continued = day.continuedHeading;
+    // Several days: the chart comes first so it stays with the day's heading. One day: no
+    // chart, so the plan fits one sheet; each meal's absorbed amount and the day's total
+    // line already give its figures.
+    if (!oneDay) {
+      drawAbsorbableChart(flow, day.chart);
+      flow.y += 6;
+    }
     for (const occ of day.occasions) drawOccasion(flow, occ);
+    for (const note of day.nameNotes) {
+      flow.paragraph(note, style(TYPE.small, 'regular', THEME.muted), { gapAfter: 2 });
+    }
     continued = null;
   }
 
-  flow.newPage();
+  if (oneDay) {
+    flow.y += 8;
+    flow.ensure(flow.lineHeight(TYPE.heading) * 4);
+  } else flow.newPage();
   const w = vm.foodsToWatch;
   heading(flow, w.heading);
   flow.paragraph(w.intro, style(TYPE.body), { gapAfter: 8 });
   if (w.codes.length > 0) {
     const rows = w.codes.map((c) => [c.code, c.names.join(', ')]);
     const withNames = w.codes.some((c) => c.names.length > 0);
-    if (withNames) {
+    if (withNames && oneDay) {
+      // One sheet: the codes run on as one paragraph instead of a table row each.
+      flow.paragraph(
+        w.codes.map((c) => `${c.code} ${c.names.join(', ')}`).join('  \u00b7  '),
+        style(TYPE.body),
+        { gapAfter: 4 },
+      );
+    } else if (withNames) {
       drawTable(
         flow,
         [
