@@ -33,7 +33,7 @@ const STYLESHEETS = ['handout.css', 'paper-a4.css', 'paper-letter.css'] as const
 export const handoutRoutes: FastifyPluginAsync<HandoutRoutesOptions> = async (app, opts) => {
   const languages = opts.languages ?? loadCataloguesOrThrow();
   const service = new HandoutService(
-    handoutSourcesFromDb(opts.db, opts.clock),
+    handoutSourcesFromDb(opts.db, opts.clock, languages.list()),
     languages,
     opts.clock,
   );

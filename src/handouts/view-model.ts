@@ -288,6 +288,8 @@ export function buildHandoutViewModel(
 
   const itemLabel = (item: HandoutItem, used: Set<string>): string => {
     const info = options.foods?.get(item.foodId);
+    // Without the table's name the label cannot be told from it: it is printed as given.
+    if (!info && item.foodName === undefined) return isolateInRtl(item.label, dir);
     const sources: FoodNameSources = info?.names ?? { foodName: item.foodName ?? item.label };
     const name = patientFacingName(item.label, sources, language);
     const mark = name.drafted ? DRAFTED_MARK : name.fromTable ? TABLE_NAME_MARK : '';

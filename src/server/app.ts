@@ -20,6 +20,7 @@ import { settingsRoutes } from '../settings/settings.routes.js';
 import { importRoutes } from '../imports/imports.routes.js';
 import { redirectScreensToSignIn, webRoutes } from '../web/web.routes.js';
 import { handoutRoutes } from '../handouts/handouts.routes.js';
+import { glossaryRoutes } from '../glossary/glossary.routes.js';
 import { registerErrorHandler } from './error-handler.js';
 import { registerTurns } from './turns.js';
 
@@ -92,6 +93,7 @@ export async function buildApp(deps: AppDeps): Promise<App> {
   await app.register(additivesRoutes, { prefix: '/api' });
   await app.register(settingsRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(handoutRoutes, { db: deps.db, clock: deps.clock });
+  await app.register(glossaryRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(importRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(webRoutes);
   return app;
