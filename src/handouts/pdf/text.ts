@@ -43,6 +43,9 @@ export interface TextSurface {
 }
 
 const RTL_SCRIPT = /[\p{Script=Arabic}\p{Script=Hebrew}]/u;
+/** Scripts whose glyphs do not map back to the text one to one (joining, reordering, conjuncts). */
+const SHAPED_SCRIPT =
+  /[\p{Script=Arabic}\p{Script=Hebrew}\p{Script=Syriac}\p{Script=Thaana}\p{Script=Devanagari}\p{Script=Bengali}\p{Script=Gurmukhi}\p{Script=Gujarati}\p{Script=Oriya}\p{Script=Tamil}\p{Script=Telugu}\p{Script=Kannada}\p{Script=Malayalam}\p{Script=Sinhala}\p{Script=Thai}\p{Script=Khmer}\p{Script=Myanmar}]/u;
 /** Directional marks and isolates (UAX #9): they steer the bidi levels and are never drawn. */
 const BIDI_CONTROL = /[\u200e\u200f\u202a-\u202e\u2066-\u2069]/u;
 const BIDI_CONTROLS = /[\u200e\u200f\u202a-\u202e\u2066-\u2069]/gu;
@@ -278,7 +281,9 @@ export class TextEngine {
     // along as the span's ActualText (PDF 1.7, 14.9.4), which text extraction and screen
     // readers use instead of the glyphs.
     const actual = actualTextOf(line);
-    const marked = this.surface.markContent !== undefined && actual.trim() !== '';
+    // Only shaped scripts need it: Latin, Cyrillic and Han glyphs map back one to one, and
+    // poppler orders spans by their width, which reorders wrapped Latin lines.
+    const marked = this.surface.markContent !== undefined && SHAPED_SCRIPT.test(actual);
     if (marked) this.surface.markContent?.('Span', { actual });
     for (const r of runs) {
       this.drawRun(r.text, r.family, cx, baselineY, style, r.widthPt);

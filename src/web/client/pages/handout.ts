@@ -2,6 +2,7 @@ import { api } from '../api.js';
 import { initChrome } from '../chrome.js';
 import { byId, errorText, pageParams } from '../dom.js';
 import { endpoints } from '../endpoints.js';
+import { initFoodNames } from '../food-names.js';
 import type { Patient } from '../patient-types.js';
 
 initChrome();
@@ -46,7 +47,11 @@ function escapeHtml(s: string): string {
   return s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
 }
 
-langSel.addEventListener('change', () => void show());
+const foodNames = initFoodNames(planId, () => langSel.value, version, show);
+langSel.addEventListener('change', () => {
+  void show();
+  void foodNames.refresh();
+});
 paperSel.addEventListener('change', () => void show());
 byId('handout-print').addEventListener('click', () => frame.contentWindow?.print());
 
@@ -64,5 +69,6 @@ async function start(): Promise<void> {
     }
   }
   await show();
+  await foodNames.refresh();
 }
 void start();
