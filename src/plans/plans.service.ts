@@ -1,3 +1,4 @@
+import { withUserWording } from '../i18n/user-wording.js';
 import { gzipSync } from 'node:zlib';
 import type { Kysely } from 'kysely';
 import type { Clock } from '../clock.js';
@@ -159,7 +160,8 @@ export class PlanService {
     if (hit) return hit;
     const v = await this.repo.version(planId, n);
     if (!v) throw new NotFoundError('plan version', key);
-    const entry: SummaryEntry = { summary: summarizeVersion(header, v) };
+    // Evidence shown to users says "assumed (no published figure)", never "from memory".
+    const entry: SummaryEntry = { summary: withUserWording(summarizeVersion(header, v)) };
     if (this.summaries.size >= SUMMARY_CACHE_SIZE) {
       const oldest = this.summaries.keys().next().value;
       if (oldest !== undefined) this.summaries.delete(oldest);

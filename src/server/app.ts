@@ -21,6 +21,7 @@ import { importRoutes } from '../imports/imports.routes.js';
 import { redirectScreensToSignIn, webRoutes } from '../web/web.routes.js';
 import { handoutRoutes } from '../handouts/handouts.routes.js';
 import { glossaryRoutes } from '../glossary/glossary.routes.js';
+import { withUserWording } from '../i18n/user-wording.js';
 import { registerErrorHandler } from './error-handler.js';
 import { registerTurns } from './turns.js';
 
@@ -67,6 +68,8 @@ export async function buildApp(deps: AppDeps): Promise<App> {
     ...(deps.auth ? { auth: deps.auth } : {}),
   });
   registerTurns(app);
+  // Reference tables may say "from memory"; what users read says "assumed (no published figure)".
+  app.addHook('preSerialization', async (_req, _reply, payload) => withUserWording(payload));
   redirectScreensToSignIn(app);
 
   await app.register(swagger, {
