@@ -6,6 +6,7 @@ import { g, kcal, mg, range, ratio } from '../format.js';
 import type { Target } from '../patient-types.js';
 import {
   addDay,
+  copyDay,
   addItem,
   addOccasion,
   checkQuantity,
@@ -226,39 +227,77 @@ function summaryItem(day: number, occ: number, k: number): SummaryItem | undefin
   return summaryDay(day)?.occasions[occ]?.items[k];
 }
 
-function evidenceOf(item: SummaryItem | undefined): {
+/** A flag's evidence: one short line for the tooltip, the rest behind "sources", by basis. */
+interface FlagEvidence {
   additive: boolean;
   highRatio: boolean;
-  lines: string[];
-} {
-  if (!item) return { additive: false, highRatio: false, lines: [] };
+  /** The tooltip: one line about this item. */
+  short: string;
+  /** Figures for this item (its grams), one per line. */
+  itemLines: string[];
+  /** The food's profile: figures per 100 g as the table gives them, one per line. */
+  per100gLines: string[];
+}
+
+function evidenceOf(item: SummaryItem | undefined): FlagEvidence {
+  if (!item) {
+    return { additive: false, highRatio: false, short: '', itemLines: [], per100gLines: [] };
+  }
   const found = summary?.flags.additiveFoods.find((f) => f.foodId === item.foodId);
-  const lines = [...(found?.evidence ?? [])];
-  if (item.nutrients.additivePhosphorusMg)
-    lines.push(
-      `Estimated additive phosphorus in this item: ${mg(item.nutrients.additivePhosphorusMg)}`,
-    );
-  lines.push(`Phosphorus split by: ${item.splitMethod}`);
-  return { additive: item.flags.additive, highRatio: item.flags.highRatio, lines };
+  const additiveMg = item.nutrients.additivePhosphorusMg;
+  const itemLines = [
+    ...(additiveMg ? [`Additive phosphorus: about ${mg(additiveMg)}`] : []),
+    `Phosphorus split by: ${item.splitMethod}`,
+  ];
+  const short = additiveMg
+    ? `Phosphate additives likely: about ${mg(additiveMg)} in this ${fmtN(item.grams)} g.`
+    : 'Phosphate additives likely in this food.';
+  return {
+    additive: item.flags.additive,
+    highRatio: item.flags.highRatio,
+    short,
+    itemLines,
+    per100gLines: [...(found?.evidence ?? [])],
+  };
 }
 
 let tipSeq = 0;
-function flagWithTip(kind: 'additive' | 'ratio', text: string, lines: string[]): HTMLElement {
+/** A flag with a one-line tooltip and, when there is more, a "sources" disclosure beside it. */
+function flagWithTip(
+  kind: 'additive' | 'ratio',
+  text: string,
+  short: string,
+  more: { heading: string; lines: string[] }[] = [],
+): HTMLElement {
   const id = `tip-${++tipSeq}`;
-  return h(
+  const flag = h(
     'span',
     { class: `flag flag-${kind} has-tip`, tabindex: '0', 'aria-describedby': id },
     text,
+    h('span', { class: 'tip', role: 'tooltip', id }, short),
+  );
+  const groups = more.filter((g) => g.lines.length > 0);
+  if (groups.length === 0) return flag;
+  return h(
+    'span',
+    { class: 'flag-with-sources' },
+    flag,
     h(
-      'span',
-      { class: 'tip', role: 'tooltip', id },
-      lines.length
-        ? h(
+      'details',
+      { class: 'sources' },
+      h('summary', {}, 'sources'),
+      h(
+        'div',
+        { class: 'sources-body' },
+        groups.flatMap((g) => [
+          h('p', { class: 'sources-basis' }, g.heading),
+          h(
             'ul',
             {},
-            lines.map((l) => h('li', {}, l)),
-          )
-        : 'No further evidence recorded.',
+            g.lines.map((l) => h('li', {}, l)),
+          ),
+        ]),
+      ),
     ),
   );
 }
@@ -387,6 +426,7 @@ function quantityCell(day: number, occ: number, k: number, item: DraftItem): HTM
 }
 
 function renderTabs(): void {
+  fillCopyTargets();
   const tabs = byId('day-tabs');
   fill(
     tabs,
@@ -495,12 +535,22 @@ function renderMeals(): void {
                       {},
                       h('span', {}, name),
                       ' ',
-                      ev.additive ? flagWithTip('additive', 'additive P', ev.lines) : null,
+                      ev.additive
+                        ? flagWithTip('additive', 'additive P', ev.short, [
+                            {
+                              heading: `This item (${fmtN(s?.grams ?? 0)} g)`,
+                              lines: ev.itemLines,
+                            },
+                            { heading: 'The food, per 100 g', lines: ev.per100gLines },
+                          ])
+                        : null,
                       ' ',
                       ev.highRatio
-                        ? flagWithTip('ratio', 'high ratio', [
-                            `${ratio(s?.nutrients.phosphorusProteinRatioMgPerG)} phosphorus per gram of protein`,
-                          ])
+                        ? flagWithTip(
+                            'ratio',
+                            'high ratio',
+                            `${ratio(s?.nutrients.phosphorusProteinRatioMgPerG)} phosphorus per gram of protein (the food, any amount).`,
+                          )
                         : null,
                       wordsInput(activeDay, j, k, item, name),
                     ),
@@ -846,6 +896,26 @@ function renderSide(): void {
 
 // ---- days and occasions ----------------------------------------------------------------------
 
+/** The "copy this day" choices: every other day, each day, or a new day. */
+function fillCopyTargets(): void {
+  const others = draft.days.map((d, i) => ({ d, i })).filter((x) => x.i !== activeDay);
+  fill(
+    byId('copy-day-to'),
+    others.length > 1 ? h('option', { value: 'others' }, 'every other day') : null,
+    others.map((x) => h('option', { value: String(x.i) }, x.d.label)),
+    h('option', { value: 'new' }, 'a new day'),
+  );
+}
+byId<HTMLFormElement>('copy-day-form').addEventListener('submit', (e) => {
+  e.preventDefault();
+  const choice = byId<HTMLSelectElement>('copy-day-to').value || 'new';
+  const others = draft.days.map((_, i) => i).filter((i) => i !== activeDay);
+  const to = choice === 'new' ? 'new' : choice === 'others' ? others : [Number(choice)];
+  const next = copyDay(draft, activeDay, to);
+  if (to === 'new') activeDay = next.days.length - 1;
+  void commit(next);
+});
+
 byId('add-day-btn').addEventListener('click', () => {
   activeDay = draft.days.length;
   void commit(addDay(draft));
@@ -894,9 +964,10 @@ async function renderVersions(): Promise<void> {
       const detail = ` · ${savedAt(v.createdAt)} · ${v.days} ${v.days === 1 ? 'day' : 'days'}${v.note ? ` · ${v.note}` : ''}`;
       const href =
         v.version === latest ? `/plans/${planId}` : `/plans/${planId}?version=${v.version}`;
+      // A plain list: the label carries the number (a numbered list counted down to "0.").
       return h(
         'li',
-        { value: String(v.version) },
+        {},
         v.version === shown
           ? h('strong', { 'aria-current': 'page' }, label)
           : h('a', { href }, label),
