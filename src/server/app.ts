@@ -14,6 +14,7 @@ import { registerSecurity, type AuthOptions } from '../auth/security.js';
 import { foodRoutes } from '../foods/foods.routes.js';
 import { patientRoutes } from '../patients/patients.routes.js';
 import { planRoutes } from '../plans/plans.routes.js';
+import { planDraftRoutes } from '../plans/drafts.routes.js';
 import { diaryRoutes } from '../diary/diary.routes.js';
 import { additivesRoutes } from '../additives/additives.routes.js';
 import { settingsRoutes } from '../settings/settings.routes.js';
@@ -92,6 +93,7 @@ export async function buildApp(deps: AppDeps): Promise<App> {
   await app.register(foodRoutes, { prefix: '/api', db: deps.db });
   await app.register(patientRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(planRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
+  await app.register(planDraftRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(diaryRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(additivesRoutes, { prefix: '/api' });
   await app.register(settingsRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });

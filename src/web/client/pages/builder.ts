@@ -73,7 +73,27 @@ function setSaveState(text: string, error = false): void {
   el.className = `save-state${error ? ' error' : ''}`;
 }
 
-/** Every change is saved as a new version of the plan (earlier versions are kept), then summed. */
+/** The draft answer: the summary of the plan as edited, without a new version. */
+interface DraftSaved {
+  baseVersion: number;
+  updatedAt: string;
+  summary: PlanSummary;
+}
+
+const draftUrl = `/api/plans/${planId}/draft`;
+/** Edits autosaved as a draft that no saved version holds yet, and how many. */
+let draftPending = false;
+let draftEdits = 0;
+
+function draftState(): string {
+  const since = plan?.version ? ` since version ${plan.version}` : '';
+  return `Saved as a draft: ${draftEdits} ${draftEdits === 1 ? 'change' : 'changes'}${since}, not yet a version`;
+}
+
+/**
+ * Every change is autosaved as the plan's draft and summed by the server; a version is kept
+ * only when the dietitian saves (or opens the take-home sheet to print).
+ */
 async function commit(next: PlanDraft): Promise<void> {
   draft = next;
   dirty = true;
@@ -81,15 +101,91 @@ async function commit(next: PlanDraft): Promise<void> {
   setSaveState('Saving…');
   const mine = ++summarySeq;
   try {
-    const saved = await api<PlanJson>('PUT', endpoints.plan(planId), toPlanInput(draft));
+    const saved = await api<DraftSaved>('PUT', draftUrl, toPlanInput(draft));
     if (mine !== summarySeq) return;
-    plan = saved;
     dirty = false;
+    draftPending = true;
+    draftEdits++;
+    byId<HTMLButtonElement>('save-version-btn').disabled = false;
+    setSaveState(draftState());
+    summary = saved.summary;
+    renderMeals();
+    renderSide();
+  } catch (err) {
+    if (mine === summarySeq) setSaveState(`Not saved: ${errorText(err)}`, true);
+  }
+}
+
+/** Keeps the plan as edited as a new version (the draft becomes that version). */
+async function saveVersion(): Promise<boolean> {
+  const mine = ++summarySeq;
+  setSaveState('Saving a version…');
+  try {
+    const saved = await api<PlanJson>('PUT', endpoints.plan(planId), toPlanInput(draft));
+    plan = saved;
+    draftPending = false;
+    draftEdits = 0;
+    dirty = false;
+    byId<HTMLButtonElement>('save-version-btn').disabled = true;
     setSaveState(saved.version ? `Saved as version ${saved.version}` : 'Saved');
     await refreshSummary(mine);
     void renderVersions();
+    return true;
   } catch (err) {
-    if (mine === summarySeq) setSaveState(`Not saved: ${errorText(err)}`, true);
+    setSaveState(`Not saved: ${errorText(err)}`, true);
+    return false;
+  }
+}
+byId('save-version-btn').addEventListener('click', () => void saveVersion());
+// Printing keeps a version: the sheet is always the sheet of a saved version.
+byId<HTMLAnchorElement>('handout-link').addEventListener('click', (e) => {
+  if (!draftPending || pastVersion !== null) return;
+  e.preventDefault();
+  const href = byId<HTMLAnchorElement>('handout-link').href;
+  void saveVersion().then((ok) => {
+    if (ok) location.href = href;
+  });
+});
+
+/** The editor's days rebuilt from a draft's summary (grams and measures as resolved). */
+function draftFromSummary(name: string, s: PlanSummary): PlanDraft {
+  return {
+    name,
+    days: s.days.map((d) => ({
+      label: d.label,
+      occasions: d.occasions.map((o) => ({
+        name: o.name,
+        kind: o.kind,
+        time: o.time,
+        items: o.items.map((i) => ({
+          foodId: i.foodId,
+          grams: i.grams,
+          measure: i.measure ? { ...i.measure } : null,
+          label: i.label === i.foodName ? null : i.label,
+        })),
+      })),
+    })),
+  };
+}
+
+/** Opens the unsaved draft left by an earlier visit, unless a version was saved after it. */
+async function resumeDraft(): Promise<void> {
+  let found: { input: unknown; stale: boolean; updatedAt: string };
+  try {
+    found = await api('GET', draftUrl);
+  } catch {
+    return; // no draft
+  }
+  if (found.stale) return;
+  try {
+    const saved = await api<DraftSaved>('PUT', draftUrl, found.input);
+    summary = saved.summary;
+    draft = draftFromSummary(draft.name, saved.summary);
+    draftPending = true;
+    byId<HTMLButtonElement>('save-version-btn').disabled = false;
+    setSaveState(`Unsaved draft from ${savedAt(found.updatedAt)} (not yet a version)`);
+  } catch {
+    // A draft that no longer checks (a food removed by a re-import) is left; the version shows.
   }
 }
 
@@ -1033,6 +1129,7 @@ async function start(): Promise<void> {
   byId<HTMLAnchorElement>('handout-link').href =
     `/plans/${planId}/preview${pastVersion === null ? '' : `?version=${pastVersion}`}`;
   if (pastVersion !== null) showPastVersion(plan);
+  else await resumeDraft();
   void renderVersions();
   const ids = new Set(
     draft.days.flatMap((d) => d.occasions.flatMap((o) => o.items.map((i) => i.foodId))),
@@ -1041,8 +1138,9 @@ async function start(): Promise<void> {
   const foodsP = Promise.all([...ids].map((id) => loadFood(id)));
   if (pastVersion === null) searchInput.focus();
   const res = await summaryP;
-  if (res.ok) summary = res.v;
-  else setSaveState(`Totals unavailable: ${errorText(res.err)}`, true);
+  // A resumed draft already has its own summary.
+  if (!res.ok) setSaveState(`Totals unavailable: ${errorText(res.err)}`, true);
+  else if (!draftPending) summary = res.v;
   renderMeals();
   renderSide();
   await foodsP;
