@@ -101,12 +101,16 @@ export const handoutRoutes: FastifyPluginAsync<HandoutRoutesOptions> = async (ap
         version: req.query.version,
         paper: req.query.paper,
       });
-      return reply
-        .header('content-type', 'text/html; charset=utf-8')
-        .header('cache-control', 'no-store')
-        .header('content-language', view.language)
-        .header('x-phosledger-translation-status', view.status.review.status)
-        .send(view.html);
+      return (
+        reply
+          .header('content-type', 'text/html; charset=utf-8')
+          .header('cache-control', 'no-store')
+          .header('content-language', view.language)
+          .header('x-phosledger-translation-status', view.status.review.status)
+          // Clinic fields to fill in before this plan's PDF can be printed (none: empty).
+          .header('x-phosledger-clinic-missing', view.clinicMissing.join(','))
+          .send(view.html)
+      );
     },
   );
 

@@ -240,6 +240,7 @@ export class HandoutService {
       }),
       language: prepared.vm.language,
       status: prepared.status,
+      clinicMissing: prepared.clinicMissing,
     };
   }
 }

@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { glossaryToCsv, parseGlossaryCsv, patientFacingName } from '../../src/glossary/glossary.js';
 import { drinkVolume, isDrink, portionMl } from '../../src/handouts/drinks.js';
 import { testFood } from '../helpers/food.js';
+import { localNames } from '../../data-import/off-csv.js';
 
 const LANGS = ['en', 'es', 'ar', 'zh-Hans'];
 
@@ -145,5 +146,32 @@ describe('drinks in ml (US customary volumes, NIST Handbook 44 App. C)', () => {
       gPerMl: 1,
       assumed: true,
     });
+  });
+});
+
+describe("a table's own names in other languages (Open Food Facts product_name_<lc>)", () => {
+  // Invented product row in the export's column layout.
+  const cells: Record<string, string> = {
+    code: '3000000000001',
+    product_name: 'Cola drink',
+    product_name_es: 'Refresco de cola',
+    product_name_fr: '',
+    generic_name_fr: 'Boisson gazeuse',
+    product_name_de: 'Cola drink',
+    product_name_zh: '可乐',
+  };
+  const row = {
+    header: Object.keys(cells),
+    rawHeader: Object.keys(cells),
+    fields: Object.values(cells),
+    line: 2,
+    get: (c: string) => cells[c] ?? '',
+  };
+  it('keeps the product name per language, the generic name when it is empty, not copies of the main name', () => {
+    expect(localNames(row, 'Cola drink')).toEqual([
+      ['es', 'Refresco de cola'],
+      ['fr', 'Boisson gazeuse'],
+      ['zh', '可乐'],
+    ]);
   });
 });

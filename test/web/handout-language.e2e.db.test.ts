@@ -50,11 +50,6 @@ describe.skipIf(!canRun && !required)(
       await signInThroughPage(hs, '/patients');
       const [cola, bologna] = foods as [Food, Food];
       const can = cola.portions.find((p) => /^can/.test(p.description));
-      await apiAs(hs, 'PUT', '/api/settings/clinic', {
-        name: 'Test Renal Unit',
-        contact: '555-0100',
-        dietitianName: 'R. Test',
-      });
       const patient = await apiAs<{ id: number }>(hs, 'POST', '/api/patients', {
         label: 'SHEET-01 (invented)',
         language: 'es-MX',
@@ -95,6 +90,9 @@ describe.skipIf(!canRun && !required)(
       expect(text).toContain('1 lata (unos 355 ml)');
       expect(text).toContain('Mortadela (bolonia) *');
       expect(text).not.toContain('Bologna, beef and pork');
+      // No clinic details yet: the sheet says so and holds the PDF.
+      await expect.poll(() => page.locator('#handout-clinic-missing').isVisible(), POLL).toBe(true);
+      expect(await page.locator('#handout-pdf').getAttribute('aria-disabled')).toBe('true');
       const violations = await runAxe(page);
       expect(violations, axeReport(violations)).toEqual([]);
     });
@@ -114,6 +112,11 @@ describe.skipIf(!canRun && !required)(
     });
 
     it('the Arabic sheet reads right to left with the Arabic names, and its PDF downloads', async () => {
+      await apiAs(hs, 'PUT', '/api/settings/clinic', {
+        name: 'Test Renal Unit',
+        contact: '555-0100',
+        dietitianName: 'R. Test',
+      });
       await page.locator('#handout-lang').selectOption('ar');
       await expect.poll(() => sheetText(page), POLL).toContain('مشروب الكولا');
       const dir = await page.frameLocator('#handout-frame').locator('html').getAttribute('dir');
@@ -123,6 +126,9 @@ describe.skipIf(!canRun && !required)(
       await expect
         .poll(() => page.locator(`#food-name-${cola.id}`).getAttribute('dir'), POLL)
         .toBe('rtl');
+      await expect
+        .poll(() => page.locator('#handout-clinic-missing').isVisible(), POLL)
+        .toBe(false);
       const href = await page.locator('#handout-pdf').getAttribute('href');
       const res = await hs.context.request.get(`${hs.baseUrl}${href}`);
       expect(res.status()).toBe(200);

@@ -36,12 +36,24 @@ async function show(): Promise<void> {
     const res = await fetch(url, { credentials: 'same-origin', headers: { accept: 'text/html' } });
     const text = await res.text();
     if (!res.ok) throw new Error(`${res.status}: ${text.slice(0, 200)}`);
+    showClinicCheck(res.headers.get('x-phosledger-clinic-missing') ?? '');
     frame.srcdoc = text.replace(/<head([^>]*)>/i, `<head$1><base href="${location.origin}/">`);
     frame.dataset.lang = lang;
   } catch (err) {
     frame.srcdoc = `<p>The sheet could not be prepared: ${escapeHtml(errorText(err))}</p>`;
   }
 }
+
+/** A real patient's sheet prints only with the clinic's own details: say so, and hold the PDF. */
+function showClinicCheck(missing: string): void {
+  const notice = byId('handout-clinic-missing');
+  notice.hidden = missing === '';
+  pdf.setAttribute('aria-disabled', missing === '' ? 'false' : 'true');
+  pdf.classList.toggle('is-disabled', missing !== '');
+}
+pdf.addEventListener('click', (e) => {
+  if (pdf.getAttribute('aria-disabled') === 'true') e.preventDefault();
+});
 
 function escapeHtml(s: string): string {
   return s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
