@@ -11,9 +11,7 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('language', 'text', (c) => c.notNull())
     .addColumn('name', 'text', (c) => c.notNull())
     // 'drafted' until someone who reads the language has checked it
-    .addColumn('status', 'text', (c) =>
-      c.notNull().check(sql`status in ('drafted', 'reviewed')`),
-    )
+    .addColumn('status', 'text', (c) => c.notNull().check(sql`status in ('drafted', 'reviewed')`))
     .addColumn('updated_by', 'integer')
     .addColumn('updated_at', 'text', (c) => c.notNull())
     .addPrimaryKeyConstraint('food_glossary_pk', ['food_id', 'language'])
