@@ -32,6 +32,25 @@ const TAGS: Record<string, string> = {
 const NOT_NUTRIENTS =
   /score|footprint|^ph_|glycemic|hardness|fruits-vegetables|cocoa|collagen|nova/;
 
+/**
+ * The product's names in other languages: the export's language-suffixed columns
+ * (`product_name_es`, `product_name_fr`, ...; `generic_name_<lc>` when the product name is
+ * empty), as Open Food Facts documents its per-language fields. Names equal to the main name
+ * are left out.
+ */
+export function localNames(row: CsvRow, mainName: string): Array<[string, string]> {
+  const out = new Map<string, string>();
+  for (const column of row.header) {
+    const m = /^(product|generic)_name_([a-z]{2,3})$/.exec(column);
+    if (!m) continue;
+    const language = m[2] as string;
+    const value = row.get(column).trim();
+    if (!value || value === mainName) continue;
+    if (m[1] === 'product' || !out.has(language)) out.set(language, value);
+  }
+  return [...out];
+}
+
 async function readAll(set: FileSet, ctx: ImportContext): Promise<void> {
   const { writer, issues, progress } = ctx;
   const entry = set.entries[0];
@@ -126,6 +145,8 @@ async function readAll(set: FileSet, ctx: ImportContext): Promise<void> {
       }
       for (const [defId, value] of values)
         writer.addValue(foodId, defId, value, null, null, file, row.line);
+      for (const [language, localName] of localNames(row, name))
+        writer.addLocalName(foodId, language, localName);
       if (servingG !== null)
         writer.addPortion(foodId, 1, 1, text(row, 'serving_size') || 'serving', servingG);
       progress.rows++;

@@ -112,6 +112,7 @@ export class SourceWriter {
       s.prepare(`delete from food_fts where rowid in (${inSource})`).run(prev.id);
       s.prepare(`delete from nutrient_value where food_id in (${inSource})`).run(prev.id);
       s.prepare(`delete from portion where food_id in (${inSource})`).run(prev.id);
+      s.prepare(`delete from food_local_name where food_id in (${inSource})`).run(prev.id);
     } else {
       const r = s
         .prepare(
@@ -235,6 +236,16 @@ export class SourceWriter {
   addPortion(foodId: number, seq: number, amount: number, description: string, grams: number) {
     this.insPortion.run(foodId, seq, amount, description, grams);
     this.portions++;
+  }
+
+  private insLocalName: Database.Statement | null = null;
+
+  /** The food's own name in another language as the table gives it (language: BCP-47). */
+  addLocalName(foodId: number, language: string, name: string): void {
+    this.insLocalName ??= this.sqlite.prepare(
+      'insert or replace into food_local_name (food_id, language, name) values (?, ?, ?)',
+    );
+    this.insLocalName.run(foodId, language, name);
   }
 
   /** A prepared statement inside the same transaction, for format-specific updates. */

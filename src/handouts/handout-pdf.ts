@@ -8,7 +8,7 @@ import { PdfFlow, type FlowSurface } from './pdf/flow.js';
 import { drawTable, type TableColumn } from './pdf/table.js';
 import type { TextStyle } from './pdf/text.js';
 import { THEME, TYPE } from './pdf/theme.js';
-import type { HandoutViewModel, OccasionVm } from './view-model.js';
+import type { DayVm, HandoutViewModel, OccasionVm } from './view-model.js';
 
 export interface RenderedPdf {
   bytes: Buffer;
@@ -55,6 +55,45 @@ function drawBand(flow: PdfFlow, vm: HandoutViewModel): void {
   );
 }
 
+/** The cover's who/when box in two pairs of columns (a one-day plan's shorter cover). */
+function drawInfoCompact(flow: PdfFlow, vm: HandoutViewModel): void {
+  const label = style(TYPE.body, 'bold', THEME.muted);
+  const value = style(TYPE.body);
+  const rows: string[][] = [
+    [vm.strings.forLabel, vm.header.patientLabel, vm.strings.dateLabel, vm.header.dateText],
+    [
+      vm.strings.dietitianLabel,
+      vm.header.dietitianName,
+      vm.strings.clinicLabel,
+      vm.header.clinicName,
+    ],
+    [vm.strings.contactLabel, vm.header.clinicContact, '', ''],
+  ];
+  const columns: TableColumn[] = [
+    { share: 0.16, style: label },
+    { share: 0.34, style: value },
+    { share: 0.16, style: label },
+    { share: 0.34, style: value },
+  ];
+  const inner = flow.width - 16;
+  const h =
+    rows.reduce((sum, row) => {
+      const lines = row.map(
+        (text, i) =>
+          flow.wrap(text, i % 2 ? value : label, inner * (columns[i] as TableColumn).share - 8)
+            .length,
+      );
+      return sum + Math.max(1, ...lines) * flow.lineHeight(TYPE.body) + 6;
+    }, 0) + 12;
+  const top = flow.y;
+  flow.doc.roundedRect(flow.left, top, flow.width, h, 8).fill(THEME.brandPale);
+  flow.y += 6;
+  drawTable(flow, columns, rows, { x: 8, width: inner, padPt: 3 });
+  flow.y = top + h + 8;
+  flow.paragraph(vm.strings.subtitle, style(TYPE.subheading, 'bold', THEME.brand), { gapAfter: 2 });
+  flow.paragraph(vm.strings.howToRead, style(TYPE.body), { gapAfter: 8 });
+}
+
 function drawInfo(flow: PdfFlow, vm: HandoutViewModel): void {
   const label = style(TYPE.body, 'bold', THEME.muted);
   const value = style(TYPE.body);
@@ -98,6 +137,7 @@ function occasionHeight(
   occ: OccasionVm,
   itemCols: TableColumn[],
   inner: number,
+  rowPadPt = 3,
 ): number {
   let h = 8 + titleBlockHeight(flow, occ, inner);
   for (const item of occ.items) {
@@ -107,7 +147,7 @@ function occasionHeight(
       inner * 0.62 - 6,
     ).length;
     const b = flow.wrap(item.portion, (itemCols[1] as TableColumn).style, inner * 0.38 - 6).length;
-    h += Math.max(a, b) * flow.lineHeight(TYPE.body) + 6;
+    h += Math.max(a, b) * flow.lineHeight(TYPE.body) + 2 * rowPadPt;
   }
   if (occ.binder) h += 5 + flow.measure(binderText(occ), style(TYPE.body, 'bold'), inner - 26);
   return h + 6;
@@ -169,22 +209,64 @@ function drawPill(flow: PdfFlow, logicalX: number, y: number): void {
   doc.restore();
 }
 
-function drawOccasion(flow: PdfFlow, occ: OccasionVm): void {
+/** Where an occasion box goes across the page (logical x from the start side, width), in pt. */
+interface Slot {
+  x: number;
+  width: number;
+}
+
+const ITEM_COLS: TableColumn[] = [
+  { share: 0.62, style: style(TYPE.body) },
+  { share: 0.38, style: style(TYPE.body, 'bold'), align: 'end' },
+];
+
+function slotInner(slot: Slot): number {
+  return slot.width - 5 - 2 * 10;
+}
+
+/**
+ * A meal that does not fit the rest of the page is split between two rows of its table (the
+ * first part keeping at least two rows), instead of leaving the space empty; the binder line
+ * goes with the second part. Returns false when the meal is drawn whole.
+ */
+function splitOccasion(flow: PdfFlow, occ: OccasionVm, slot: Slot, rowPadPt: number): boolean {
+  const inner = slotInner(slot);
+  const room = flow.bottom - flow.y - 6;
+  if (flow.y <= flow.top || occasionHeight(flow, occ, ITEM_COLS, inner, rowPadPt) <= room) {
+    return false;
+  }
+  let fitted = 0;
+  for (let k = 2; k < occ.items.length; k++) {
+    const part = { ...occ, items: occ.items.slice(0, k), binder: null };
+    if (occasionHeight(flow, part, ITEM_COLS, inner, rowPadPt) <= room) fitted = k;
+  }
+  if (fitted === 0) return false;
+  drawOccasion(flow, { ...occ, items: occ.items.slice(0, fitted), binder: null }, slot, rowPadPt);
+  flow.newPage();
+  drawOccasion(flow, { ...occ, items: occ.items.slice(fitted) }, slot, rowPadPt);
+  return true;
+}
+
+function drawOccasion(
+  flow: PdfFlow,
+  occ: OccasionVm,
+  slot: Slot = { x: 0, width: flow.width },
+  rowPadPt = 3,
+  allowSplit = false,
+): void {
+  if (allowSplit && splitOccasion(flow, occ, slot, rowPadPt)) return;
   const stripe = 5;
   const pad = 10;
-  const inner = flow.width - stripe - 2 * pad;
-  const itemCols: TableColumn[] = [
-    { share: 0.62, style: style(TYPE.body) },
-    { share: 0.38, style: style(TYPE.body, 'bold'), align: 'end' },
-  ];
-  const h = occasionHeight(flow, occ, itemCols, inner);
+  const inner = slotInner(slot);
+  const itemCols = ITEM_COLS;
+  const h = occasionHeight(flow, occ, itemCols, inner, rowPadPt);
   flow.ensure(h + 6);
   const top = flow.y;
   const doc = flow.doc;
-  doc.roundedRect(flow.left, top, flow.width, h, 6).fill(THEME.brandPale);
-  doc.rect(flow.phys(0, stripe), top, stripe, h).fill(THEME.brand);
+  doc.roundedRect(flow.phys(slot.x, slot.width), top, slot.width, h, 6).fill(THEME.brandPale);
+  doc.rect(flow.phys(slot.x, stripe), top, stripe, h).fill(THEME.brand);
   flow.y = top + 5;
-  const x = stripe + pad;
+  const x = slot.x + stripe + pad;
   const absorbed = style(TYPE.small, 'regular', THEME.muted);
   if (titleShares(flow, occ, inner)) {
     const y = flow.y;
@@ -206,7 +288,7 @@ function drawOccasion(flow: PdfFlow, occ: OccasionVm): void {
     flow,
     itemCols,
     occ.items.map((i) => [itemText(i), i.portion]),
-    { x, width: inner, padPt: 3 },
+    { x, width: inner, padPt: rowPadPt },
   );
   if (occ.binder) {
     flow.y += 5;
@@ -215,6 +297,79 @@ function drawOccasion(flow: PdfFlow, occ: OccasionVm): void {
     flow.paragraph(binderText(occ), s, { x: x + 26, width: inner - 26 });
   }
   flow.y = top + h + 6;
+}
+
+/** One day: heading, total, (several days: chart), meals, what the name marks mean. */
+function drawDay(
+  flow: PdfFlow,
+  day: DayVm,
+  oneDay: boolean,
+  setContinued: (heading: string | null) => void,
+): void {
+  if (oneDay) {
+    // The heading, the total and the first meal stay together.
+    const first = day.occasions[0];
+    const firstH = first
+      ? occasionHeight(flow, first, ITEM_COLS, flow.width - 5 - 2 * 10, 1.5)
+      : flow.lineHeight(TYPE.body) * 2;
+    flow.y += 2;
+    flow.ensure(flow.lineHeight(TYPE.heading) * 2 + flow.lineHeight(TYPE.body) * 2 + firstH);
+  }
+  heading(flow, day.label ? `${day.heading}: ${day.label}` : day.heading);
+  flow.paragraph(day.totalLine, style(TYPE.body), { gapAfter: oneDay ? 4 : 8 });
+  setContinued(day.continuedHeading);
+  // Several days: the chart comes first so it stays with the day's heading. One day: no
+  // chart, so the plan fits one sheet; each meal's absorbed amount and the day's total line
+  // already give its figures.
+  if (!oneDay) {
+    drawAbsorbableChart(flow, day.chart);
+    flow.y += 6;
+  }
+  // One day: table rows a little tighter (1.5 pt padding instead of 3); type size unchanged.
+  for (const occ of day.occasions) drawOccasion(flow, occ, undefined, oneDay ? 1.5 : 3, oneDay);
+  for (const note of day.nameNotes) {
+    flow.paragraph(note, style(TYPE.small, 'regular', THEME.muted), { gapAfter: 2 });
+  }
+  setContinued(null);
+}
+
+/** "Foods to watch": E numbers with their label names, plain words, usual foods, this plan's. */
+function drawFoodsToWatch(flow: PdfFlow, vm: HandoutViewModel, oneDay: boolean): void {
+  const w = vm.foodsToWatch;
+  const gap = oneDay ? 4 : 8;
+  if (oneDay) flow.ensure(flow.lineHeight(TYPE.heading) * 4);
+  heading(flow, w.heading);
+  flow.paragraph(w.intro, style(TYPE.body), { gapAfter: gap });
+  if (w.codes.length > 0) {
+    const rows = w.codes.map((c) => [c.code, c.names.join(', ')]);
+    const withNames = w.codes.some((c) => c.names.length > 0);
+    if (withNames && oneDay) {
+      // One sheet: the codes run on as one paragraph instead of a table row each.
+      flow.paragraph(
+        w.codes.map((c) => `${c.code} ${c.names.join(', ')}`).join('  \u00b7  '),
+        style(TYPE.body),
+        { gapAfter: 4 },
+      );
+    } else if (withNames) {
+      drawTable(
+        flow,
+        [
+          { share: 0.2, style: style(TYPE.body, 'bold') },
+          { share: 0.8, style: style(TYPE.body) },
+        ],
+        rows,
+        { zebra: true },
+      );
+    } else {
+      flow.paragraph(w.codes.map((c) => c.code).join('   '), style(TYPE.body, 'bold'), {
+        gapAfter: 4,
+      });
+    }
+    flow.y += gap;
+  }
+  flow.paragraph(w.plainWords, style(TYPE.body, 'bold'), { gapAfter: gap });
+  flow.paragraph(w.foods, style(TYPE.body), { gapAfter: gap });
+  if (w.inPlan) flow.paragraph(w.inPlan, style(TYPE.body), { gapAfter: gap });
 }
 
 /**
@@ -243,55 +398,33 @@ export async function renderHandoutPdf(
         f.paragraph(continued, style(TYPE.subheading, 'bold', THEME.brand), { gapAfter: 6 });
     },
   });
+  // A one-day plan runs on after the cover and keeps "foods to watch" on the same sheet, so it
+  // prints on two pages; longer plans give each day a page of its own.
+  const oneDay = vm.days.length === 1;
   flow.newPage();
-  drawInfo(flow, vm);
+  if (oneDay) drawInfoCompact(flow, vm);
+  else drawInfo(flow, vm);
 
   heading(flow, vm.binder.heading);
   for (const line of vm.binder.lines) flow.paragraph(line, style(TYPE.body), { gapAfter: 2 });
   flow.y += 10;
   drawCautionBox(flow, vm.cautions.heading, vm.cautions.lines);
 
-  for (const day of vm.days) {
-    flow.newPage();
-    heading(flow, day.label ? `${day.heading}: ${day.label}` : day.heading);
-    flow.paragraph(day.totalLine, style(TYPE.body), { gapAfter: 8 });
-    // The chart comes first so it stays with the day's heading; the meals flow after it.
-    drawAbsorbableChart(flow, day.chart);
-    flow.y += 6;
-    continued = day.continuedHeading;
-    for (const occ of day.occasions) drawOccasion(flow, occ);
-    continued = null;
-  }
-
-  if (vm.cooking) drawCooking(flow, vm.cooking, vm.cautions.heading);
-
-  flow.newPage();
-  const w = vm.foodsToWatch;
-  heading(flow, w.heading);
-  flow.paragraph(w.intro, style(TYPE.body), { gapAfter: 8 });
-  if (w.codes.length > 0) {
-    const rows = w.codes.map((c) => [c.code, c.names.join(', ')]);
-    const withNames = w.codes.some((c) => c.names.length > 0);
-    if (withNames) {
-      drawTable(
-        flow,
-        [
-          { share: 0.2, style: style(TYPE.body, 'bold') },
-          { share: 0.8, style: style(TYPE.body) },
-        ],
-        rows,
-        { zebra: true },
-      );
-    } else {
-      flow.paragraph(w.codes.map((c) => c.code).join('   '), style(TYPE.body, 'bold'), {
-        gapAfter: 4,
-      });
+  if (oneDay) {
+    // One sheet: what to watch for stays on the cover, the day's meals follow it.
+    flow.y += 4;
+    drawFoodsToWatch(flow, vm, true);
+    drawDay(flow, vm.days[0] as DayVm, true, (c) => (continued = c));
+    if (vm.cooking) drawCooking(flow, vm.cooking, vm.cautions.heading);
+  } else {
+    for (const day of vm.days) {
+      flow.newPage();
+      drawDay(flow, day, false, (c) => (continued = c));
     }
-    flow.y += 8;
+    if (vm.cooking) drawCooking(flow, vm.cooking, vm.cautions.heading);
+    flow.newPage();
+    drawFoodsToWatch(flow, vm, false);
   }
-  flow.paragraph(w.plainWords, style(TYPE.body, 'bold'), { gapAfter: 8 });
-  flow.paragraph(w.foods, style(TYPE.body), { gapAfter: 8 });
-  if (w.inPlan) flow.paragraph(w.inPlan, style(TYPE.body), { gapAfter: 8 });
 
   // Footers, now that the page count is known.
   const range = doc.bufferedPageRange();

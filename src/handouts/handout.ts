@@ -13,6 +13,8 @@ export interface HandoutItem {
   grams: number;
   /** The patient's own words (the patient-facing label), or the food's name when none was given. */
   label: string;
+  /** The food table's name (the summary's `foodName`); a label equal to it is no patient wording. */
+  foodName?: string;
   /** The household measure the dietitian entered (from the food table), when there is one. */
   measure?: { count: number; description: string } | null;
   /** The summary's flags; `additive` marks foods likely to contain phosphate additives. */

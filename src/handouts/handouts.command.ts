@@ -1,4 +1,4 @@
-import { writeFileSync } from 'node:fs';
+import { existsSync, writeFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { UsageError, type Command } from '../cli/command.js';
 import { systemClock } from '../clock.js';
@@ -10,10 +10,15 @@ import { HandoutService, handoutSourcesFromDb } from './handouts.service.js';
 /** `phosledger plan print <planId> --lang es --out plan.pdf [--paper a4|letter]` */
 export const planPrint: Command = {
   path: ['plan', 'print'],
-  usage: '<planId> [--lang LANG] [--paper a4|letter] --out FILE.pdf',
+  usage: '<planId> [--lang LANG] [--paper a4|letter] --out FILE.pdf [--force]',
   summary: "write a plan's patient handout as a PDF (in the patient's language unless --lang)",
   minPositionals: 1,
-  options: { lang: { type: 'string' }, paper: { type: 'string' }, out: { type: 'string' } },
+  options: {
+    lang: { type: 'string' },
+    paper: { type: 'string' },
+    out: { type: 'string' },
+    force: { type: 'boolean' },
+  },
   async run(ctx) {
     const planId = Number(ctx.args.positionals[0]);
     if (!Number.isInteger(planId) || planId <= 0) {
@@ -26,16 +31,23 @@ export const planPrint: Command = {
     if (typeof paperText !== 'string' || !(PAPER_SIZES as readonly string[]).includes(paperText)) {
       throw new UsageError('--paper must be a4 or letter');
     }
+    const file = resolve(out);
+    if (existsSync(file) && ctx.args.values.force !== true) {
+      ctx.stderr.write(
+        `phosledger: ${file} already exists; nothing written (add --force to replace it)\n`,
+      );
+      return 1;
+    }
     const lang = typeof ctx.args.values.lang === 'string' ? ctx.args.values.lang : undefined;
     const db = await ctx.db();
+    const languages = loadCataloguesOrThrow();
     const service = new HandoutService(
-      handoutSourcesFromDb(db, systemClock),
-      loadCataloguesOrThrow(),
+      handoutSourcesFromDb(db, systemClock, languages.list()),
+      languages,
       systemClock,
     );
     try {
       const pdf = await service.pdf(planId, { lang, paper: paperText as PaperSize });
-      const file = resolve(out);
       writeFileSync(file, pdf.bytes);
       const review =
         pdf.status.review.status === 'reviewed'

@@ -34,7 +34,7 @@ const STYLESHEETS = ['handout.css', 'paper-a4.css', 'paper-letter.css'] as const
 export const handoutRoutes: FastifyPluginAsync<HandoutRoutesOptions> = async (app, opts) => {
   const languages = opts.languages ?? loadCataloguesOrThrow();
   const service = new HandoutService(
-    handoutSourcesFromDb(opts.db, opts.clock),
+    handoutSourcesFromDb(opts.db, opts.clock, languages.list()),
     languages,
     opts.clock,
   );
@@ -102,12 +102,16 @@ export const handoutRoutes: FastifyPluginAsync<HandoutRoutesOptions> = async (ap
         version: req.query.version,
         paper: req.query.paper,
       });
-      return reply
-        .header('content-type', 'text/html; charset=utf-8')
-        .header('cache-control', 'no-store')
-        .header('content-language', view.language)
-        .header('x-phosledger-translation-status', view.status.review.status)
-        .send(view.html);
+      return (
+        reply
+          .header('content-type', 'text/html; charset=utf-8')
+          .header('cache-control', 'no-store')
+          .header('content-language', view.language)
+          .header('x-phosledger-translation-status', view.status.review.status)
+          // Clinic fields to fill in before this plan's PDF can be printed (none: empty).
+          .header('x-phosledger-clinic-missing', view.clinicMissing.join(','))
+          .send(view.html)
+      );
     },
   );
 

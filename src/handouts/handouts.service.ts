@@ -21,7 +21,31 @@ import type {
 import { renderHandoutHtml } from './handout-html.js';
 import { renderHandoutPdf } from './handout-pdf.js';
 import { RenderCache } from './render-cache.js';
-import { buildHandoutViewModel, type HandoutViewModel } from './view-model.js';
+import { GlossaryService } from '../glossary/glossary.service.js';
+import { DEMO_CLINIC } from '../plans/demo-seed.js';
+import { drinkVolume } from './drinks.js';
+import {
+  buildHandoutViewModel,
+  type HandoutFoodInfo,
+  type HandoutViewModel,
+} from './view-model.js';
+
+/**
+ * Whether the clinic details may go on this plan's handout: a real patient's handout needs the
+ * clinic's own name and contact, never the invented demo clinic's. Pure.
+ */
+export function clinicReadyFor(clinic: HandoutClinic, isDemoPlan: boolean): string[] {
+  if (isDemoPlan) return [];
+  const missing: string[] = [];
+  const isDemo = (v: string, demo: string) => v.trim() === demo || /invented demo/i.test(v);
+  if (!clinic.name.trim() || isDemo(clinic.name, DEMO_CLINIC.name)) missing.push('name');
+  if (!clinic.contact.trim() || isDemo(clinic.contact, DEMO_CLINIC.contact))
+    missing.push('contact');
+  if (!clinic.dietitianName.trim() || isDemo(clinic.dietitianName, DEMO_CLINIC.dietitianName)) {
+    missing.push('dietitianName');
+  }
+  return missing;
+}
 
 /** Where a handout's data comes from (the database in the app; fakes in tests). */
 export interface HandoutSources {
@@ -29,10 +53,18 @@ export interface HandoutSources {
   summary(planId: number, version?: number): Promise<HandoutSummary>;
   patient(patientId: number): Promise<HandoutPatient>;
   clinic(): Promise<HandoutClinic>;
+  /** Names (glossary, the table's own language, starter) and drink densities of the foods. */
+  foods?(foodIds: readonly number[], language: string): Promise<Map<number, HandoutFoodInfo>>;
+  /** Whether the plan is the invented demo plan (demo clinic details are allowed on it). */
+  isDemoPlan?(planId: number): Promise<boolean>;
 }
 
 /** The real sources: the plans service's summary, the patient record, the `clinic` setting. */
-export function handoutSourcesFromDb(db: Db, clock: Clock): HandoutSources {
+export function handoutSourcesFromDb(
+  db: Db,
+  clock: Clock,
+  languageList: readonly string[],
+): HandoutSources {
   const plans = new PlanService(
     db.kysely,
     clock,
@@ -41,7 +73,20 @@ export function handoutSourcesFromDb(db: Db, clock: Clock): HandoutSources {
   );
   const patients = new PatientService(db.kysely, clock);
   const settings = new SettingsService(db, clock);
+  const foodRepo = new FoodRepository(db.kysely);
+  const glossary = new GlossaryService(db.kysely, clock, languageList);
   return {
+    async foods(foodIds, language) {
+      const foods = [...(await foodRepo.getFoods(foodIds)).values()];
+      const names = await glossary.nameSources(foods, language);
+      return new Map(
+        foods.map((f) => [
+          f.id,
+          { names: names.get(f.id) ?? { foodName: f.name }, drink: drinkVolume(f) },
+        ]),
+      );
+    },
+    isDemoPlan: async (planId) => (await plans.header(planId)).isDemo,
     summary: (planId, version) => plans.getSummary(planId, version),
     async patient(patientId) {
       const p = await patients.get(patientId);
@@ -61,6 +106,8 @@ export interface HandoutOptions {
 export interface PreparedHandout {
   vm: HandoutViewModel;
   status: LanguageStatus;
+  /** Clinic fields still to fill in before this plan's handout can be printed. */
+  clinicMissing: string[];
 }
 
 const WATCH_ADDITIVES: AdditiveLabelEntry[] = selectWatchAdditives(ADDITIVE_CATALOGUE);
@@ -99,6 +146,16 @@ export class HandoutService {
       this.sources.patient(summary.patientId),
       this.sources.clinic(),
     ]);
+    const isDemoPlan = this.sources.isDemoPlan ? await this.sources.isDemoPlan(planId) : true;
+    const clinicMissing = clinicReadyFor(clinic, isDemoPlan);
+    if (opts.mode === 'refuse' && clinicMissing.length > 0) {
+      throw new AppError(
+        'PHL_HANDOUT_CLINIC_NOT_SET',
+        409,
+        `fill in the clinic details first (Clinic settings: ${clinicMissing.join(', ')}): a real patient's handout never carries the invented demo clinic or an empty one`,
+        { missing: clinicMissing },
+      );
+    }
     const asked = opts.lang ?? patient.language ?? 'en';
     const language = this.languages.resolve(asked);
     if (!language) {
@@ -110,6 +167,12 @@ export class HandoutService {
       );
     }
     const bundle = this.languages.bundle(language);
+    const foodIds = [
+      ...new Set(
+        summary.days.flatMap((d) => d.occasions.flatMap((o) => o.items.map((i) => i.foodId))),
+      ),
+    ];
+    const foods = this.sources.foods ? await this.sources.foods(foodIds, language) : undefined;
     const built = buildHandoutViewModel(
       summary,
       patient,
@@ -117,7 +180,7 @@ export class HandoutService {
       language,
       bundle,
       localIsoDate(this.clock.now(), this.timeZone),
-      { additives: WATCH_ADDITIVES, fallback: opts.mode },
+      { additives: WATCH_ADDITIVES, fallback: opts.mode, ...(foods ? { foods } : {}) },
     );
     if (!built.ok) {
       throw new AppError(
@@ -127,7 +190,7 @@ export class HandoutService {
         { language, missingKeys: built.missingKeys },
       );
     }
-    return { vm: built.value, status: bundle.status() };
+    return { vm: built.value, status: bundle.status(), clinicMissing };
   }
 
   async pdf(planId: number, opts: HandoutOptions) {
@@ -177,6 +240,7 @@ export class HandoutService {
       }),
       language: prepared.vm.language,
       status: prepared.status,
+      clinicMissing: prepared.clinicMissing,
     };
   }
 }

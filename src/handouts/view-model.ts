@@ -1,6 +1,8 @@
 import { formatDate, formatList, formatNumber, formatTime } from '../i18n/format.js';
 import type { MessageBundle, MessageValues } from '../i18n/messages.js';
 import type { ReviewStatus } from '../i18n/catalogue.js';
+import { patientFacingName, type FoodNameSources } from '../glossary/glossary.js';
+import type { DrinkVolume } from './drinks.js';
 import type { ScriptFamily } from './pdf/fonts.js';
 import { BINDER_CATALOGUE, type BinderInfo } from '../binders/catalogue.js';
 import type {
@@ -81,6 +83,8 @@ export interface DayVm {
   totalLine: string;
   occasions: OccasionVm[];
   chart: ChartVm;
+  /** What the marks after food names mean (drafted names, the table's own names), when used. */
+  nameNotes: string[];
 }
 
 /** Everything a handout shows, already in the patient's language; both renderers read only this. */
@@ -128,7 +132,30 @@ export interface HandoutViewModel {
   fallbackKeys: string[];
 }
 
+/** What the handout knows of one food beyond the summary (the glossary and the food table). */
+export interface HandoutFoodInfo {
+  names: FoodNameSources;
+  /** Density for giving a drink in ml; null when the food is not drunk. */
+  drink: DrinkVolume | null;
+}
+
+/** Mark after a name nobody has checked in the language yet. */
+export const DRAFTED_MARK = ' *';
+/** Mark after the table's own name standing in for a name in the language. */
+export const TABLE_NAME_MARK = ' \u2020';
+
+const STRONG_LTR = /[A-Za-z\u00c0-\u024f\u0370-\u03ff\u0400-\u04ff]/;
+/**
+ * Unicode bidi isolation (FSI ... PDI, UAX #9 X5c) around text that holds left-to-right letters
+ * inside a right-to-left handout, so its punctuation stays with it (Latin food names in Arabic).
+ */
+export function isolateInRtl(text: string, direction: 'ltr' | 'rtl'): string {
+  return direction === 'rtl' && STRONG_LTR.test(text) ? `\u2068${text}\u2069` : text;
+}
+
 export interface HandoutOptions {
+  /** Patient-facing names and drink densities per food id. */
+  foods?: ReadonlyMap<number, HandoutFoodInfo>;
   /** Phosphate additives for "foods to watch" (the additive catalogue's entries). */
   additives?: readonly AdditiveLabelEntry[];
   /**
@@ -156,6 +183,13 @@ const OCCASION_KEYS: Record<string, string> = {
   'evening snack': 'occasion.eveningSnack',
   'bedtime snack': 'occasion.eveningSnack',
 };
+
+/** Container words a drink is measured in (SR28 "can or bottle (12 fl oz)", "cup (8 fl oz)"). */
+const DRINK_MEASURES: [RegExp, string][] = [
+  [/^(cans?|can or bottle)\b/i, 'measure.can'],
+  [/^bottles?\b/i, 'measure.bottle'],
+  [/^(cups?|glass(es)?|fl oz)\b/i, 'measure.glass'],
+];
 
 const MEASURES: [RegExp, string][] = [
   [/^cups?\b/i, 'measure.cup'],
@@ -305,9 +339,23 @@ export function buildHandoutViewModel(
     return key ? t(key) : name;
   };
 
+  const dir = meta.direction;
   const portion = (item: HandoutItem): string => {
     const g = grams(item.grams);
     const m = item.measure;
+    const drink = options.foods?.get(item.foodId)?.drink ?? null;
+    if (drink) {
+      // Drinks in ml, the unit on their containers; rounded to 5 ml above 50 ml.
+      const mlExact = item.grams / drink.gPerMl;
+      const ml = formatNumber(
+        locale,
+        mlExact >= 50 ? Math.round(mlExact / 5) * 5 : Math.round(mlExact),
+      );
+      const hit =
+        m && m.count > 0 ? DRINK_MEASURES.find(([re]) => re.test(m.description.trim())) : null;
+      if (m && hit) return t('portion.withMl', { measure: t(hit[1], { count: m.count }), ml });
+      return t('portion.ml', { ml });
+    }
     if (m && m.count > 0) {
       const hit = MEASURES.find(([re]) => re.test(m.description.trim()));
       if (hit) return t('portion.withGrams', { measure: t(hit[1], { count: m.count }), grams: g });
@@ -323,7 +371,19 @@ export function buildHandoutViewModel(
       : null;
   };
 
+  const itemLabel = (item: HandoutItem, used: Set<string>): string => {
+    const info = options.foods?.get(item.foodId);
+    // Without the table's name the label cannot be told from it: it is printed as given.
+    if (!info && item.foodName === undefined) return isolateInRtl(item.label, dir);
+    const sources: FoodNameSources = info?.names ?? { foodName: item.foodName ?? item.label };
+    const name = patientFacingName(item.label, sources, language);
+    const mark = name.drafted ? DRAFTED_MARK : name.fromTable ? TABLE_NAME_MARK : '';
+    if (mark) used.add(mark);
+    return isolateInRtl(name.text, dir) + mark;
+  };
+
   const days: DayVm[] = summary.days.map((day, dayIndex) => {
+    const marks = new Set<string>();
     const occasions: OccasionVm[] = day.occasions.map((occ) => {
       const dose = doses.find((d) => sameDay(d.day, dayIndex, day) && d.occasion === occ.name);
       let binder: OccasionVm['binder'] = null;
@@ -347,7 +407,7 @@ export function buildHandoutViewModel(
         absorbableMg: { low: a.low, typical: a.typical, high: a.high },
         absorbedLine: t('occasion.absorbed', { typical: mg(a.typical) }),
         items: occ.items.map((item) => ({
-          label: item.label,
+          label: itemLabel(item, marks),
           portion: preparedPortion(item) ?? portion(item),
           grams: item.grams,
           ...(preparedMethod(item)
@@ -378,6 +438,10 @@ export function buildHandoutViewModel(
         total: mg(day.nutrients.phosphorusMg),
       }),
       occasions,
+      nameNotes: [
+        ...(marks.has(DRAFTED_MARK) ? [t('names.drafted')] : []),
+        ...(marks.has(TABLE_NAME_MARK) ? [t('names.fromTable')] : []),
+      ],
       chart: {
         title: t('chart.title'),
         rows: occasions.map((o) => ({
@@ -431,7 +495,9 @@ export function buildHandoutViewModel(
   const flagged = [
     ...new Set(
       summary.days.flatMap((d) =>
-        d.occasions.flatMap((o) => o.items.filter((i) => i.flags?.additive).map((i) => i.label)),
+        d.occasions.flatMap((o) =>
+          o.items.filter((i) => i.flags?.additive).map((i) => itemLabel(i, new Set())),
+        ),
       ),
     ),
   ];
@@ -467,10 +533,10 @@ export function buildHandoutViewModel(
       locale,
     },
     header: {
-      clinicName: clinic.name.trim() || '\u2014',
-      clinicContact: clinic.contact.trim() || '\u2014',
-      patientLabel: patient.label,
-      dietitianName: clinic.dietitianName.trim() || '\u2014',
+      clinicName: isolateInRtl(clinic.name.trim() || '\u2014', dir),
+      clinicContact: isolateInRtl(clinic.contact.trim() || '\u2014', dir),
+      patientLabel: isolateInRtl(patient.label, dir),
+      dietitianName: isolateInRtl(clinic.dietitianName.trim() || '\u2014', dir),
       date: dateIso,
       dateText: formatDate(locale, dateIso),
     },
@@ -495,7 +561,9 @@ export function buildHandoutViewModel(
         t('caution.additives'),
         ...(cautionCodes.has('potassium-dialysis') ? [t('caution.potassium')] : []),
         ...(cautionCodes.has('protein-below-target') ? [t('caution.protein')] : []),
-        ...(clinic.contact.trim() ? [t('caution.questions', { contact: clinic.contact })] : []),
+        ...(clinic.contact.trim()
+          ? [t('caution.questions', { contact: isolateInRtl(clinic.contact, dir) })]
+          : []),
       ],
     },
     fallbackKeys: [],

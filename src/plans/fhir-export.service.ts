@@ -30,7 +30,11 @@ export class PlanFhirExportService {
       settingsSource(db),
     );
     this.patients = new PatientService(db.kysely, clock);
-    this.handouts = new HandoutService(handoutSourcesFromDb(db, clock), languages, clock);
+    this.handouts = new HandoutService(
+      handoutSourcesFromDb(db, clock, languages.list()),
+      languages,
+      clock,
+    );
   }
 
   async export(

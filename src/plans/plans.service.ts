@@ -1,3 +1,4 @@
+import { withUserWording } from '../i18n/user-wording.js';
 import { gzipSync } from 'node:zlib';
 import type { Kysely } from 'kysely';
 import type { Clock } from '../clock.js';
@@ -10,6 +11,7 @@ import { latestLabs } from '../patients/labs.js';
 import { computeTargets } from '../patients/targets.js';
 import { planFoodIds, planInputSchema, resolvePlan, type PlanInput } from './plan.js';
 import { thresholdsSchema, type Thresholds } from './plan-settings.js';
+import { PlanDraftRepository } from './drafts.repository.js';
 import { PlanRepository, type PlanHeader, type PlanVersion } from './plans.repository.js';
 import { summarizePlan } from './summary.js';
 import type { PlanSummary, VersionContext } from './summary-types.js';
@@ -121,10 +123,34 @@ export class PlanService {
     if (!patient) throw new NotFoundError('patient', header.patientId);
     const prepared = await this.prepare(input, patient);
     const at = this.clock.now().toISOString();
-    await this.db
-      .transaction()
-      .execute((trx) => this.repo.appendVersion(trx, planId, { ...prepared, createdAt: at }));
+    await this.db.transaction().execute(async (trx) => {
+      await this.repo.appendVersion(trx, planId, { ...prepared, createdAt: at });
+      // The unsaved draft is now this version.
+      await new PlanDraftRepository(trx).remove(planId);
+    });
     return this.get(planId);
+  }
+
+  /**
+   * The summary an input would have if saved now (validated exactly as a save), without
+   * writing a version: the plate ledger's unsaved draft.
+   */
+  async previewSummary(planId: number, input: unknown): Promise<PlanSummary> {
+    const header = await this.header(planId);
+    const patient = await this.patients.get(header.patientId);
+    if (!patient) throw new NotFoundError('patient', header.patientId);
+    const prepared = await this.prepare(input, patient);
+    const v: PlanVersion = {
+      planId,
+      version: header.latestVersion,
+      name: prepared.name,
+      note: prepared.note,
+      createdAt: this.clock.now().toISOString(),
+      content: prepared.content,
+      foods: prepared.foods,
+      context: prepared.context,
+    };
+    return withUserWording(summarizeVersion(header, v));
   }
 
   /** The summary of a version, recomputed from what that version froze: the same every time. */
@@ -160,7 +186,8 @@ export class PlanService {
     if (hit) return hit;
     const v = await this.repo.version(planId, n);
     if (!v) throw new NotFoundError('plan version', key);
-    const entry: SummaryEntry = { summary: summarizeVersion(header, v) };
+    // Evidence shown to users says "assumed (no published figure)", never "from memory".
+    const entry: SummaryEntry = { summary: withUserWording(summarizeVersion(header, v)) };
     if (this.summaries.size >= SUMMARY_CACHE_SIZE) {
       const oldest = this.summaries.keys().next().value;
       if (oldest !== undefined) this.summaries.delete(oldest);

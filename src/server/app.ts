@@ -17,6 +17,7 @@ import { labRoutes } from '../patients/labs.routes.js';
 import { planFhirRoutes } from '../plans/fhir-export.routes.js';
 import { planRoutes } from '../plans/plans.routes.js';
 import { balanceRoutes } from '../balance/balance.routes.js';
+import { planDraftRoutes } from '../plans/drafts.routes.js';
 import { diaryRoutes } from '../diary/diary.routes.js';
 import { additivesRoutes } from '../additives/additives.routes.js';
 import { settingsRoutes } from '../settings/settings.routes.js';
@@ -24,6 +25,8 @@ import { importRoutes } from '../imports/imports.routes.js';
 import { redirectScreensToSignIn, webRoutes } from '../web/web.routes.js';
 import { handoutRoutes } from '../handouts/handouts.routes.js';
 import { DEFAULT_BODY_LIMIT_BYTES } from './body-limits.js';
+import { glossaryRoutes } from '../glossary/glossary.routes.js';
+import { withUserWording } from '../i18n/user-wording.js';
 import { registerErrorHandler } from './error-handler.js';
 import { registerTurns } from './turns.js';
 
@@ -71,6 +74,8 @@ export async function buildApp(deps: AppDeps): Promise<App> {
     ...(deps.auth ? { auth: deps.auth } : {}),
   });
   registerTurns(app);
+  // Reference tables may say "from memory"; what users read says "assumed (no published figure)".
+  app.addHook('preSerialization', async (_req, _reply, payload) => withUserWording(payload));
   redirectScreensToSignIn(app);
 
   await app.register(swagger, {
@@ -96,10 +101,12 @@ export async function buildApp(deps: AppDeps): Promise<App> {
   await app.register(planRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(planFhirRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(balanceRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
+  await app.register(planDraftRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(diaryRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(additivesRoutes, { prefix: '/api' });
   await app.register(settingsRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(handoutRoutes, { db: deps.db, clock: deps.clock });
+  await app.register(glossaryRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(importRoutes, { prefix: '/api', db: deps.db, clock: deps.clock });
   await app.register(webRoutes);
   return app;

@@ -120,3 +120,16 @@ export const demoClinic = {
   dietitianName: 'A. Demo, RD',
 };
 export const demoPatient = { label: 'Demo patient R-12', language: 'es' };
+
+/**
+ * Invented demo data: one day shaped like the demo plan's first day (breakfast 4 items, lunch 4,
+ * a snack of 1, dinner 5), for the "one-day plan on two pages" check.
+ */
+export function oneDaySummary(): HandoutSummary {
+  const summary = demoSummary(1, 5, 4);
+  const counts = [4, 4, 1, 5];
+  const day = summary.days[0]!;
+  day.occasions = day.occasions.map((o, i) => ({ ...o, items: o.items.slice(0, counts[i]) }));
+  day.label = 'Day 1';
+  return summary;
+}

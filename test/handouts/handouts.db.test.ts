@@ -1,5 +1,6 @@
 import { execFileSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { SettingsService } from '../../src/settings/settings.service.js';
+import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { PassThrough } from 'node:stream';
@@ -272,19 +273,49 @@ describe('phosledger plan print', () => {
         return { io: { stdout, stderr, stdin: new PassThrough(), env: {} }, chunks };
       };
       const out = join(dir, 'plan.pdf');
-      const ok = io();
-      const code = await runCli(
-        ['plan', 'print', String(plan.json().id), '--lang', 'es', '--out', out, '--db', dbFile],
-        ok.io,
+      const args = ['plan', 'print', String(plan.json().id), '--lang', 'es', '--out', out];
+      // A real patient's handout needs the clinic's own details first: nothing is written.
+      const noClinic = io();
+      expect(await runCli([...args, '--db', dbFile], noClinic.io)).toBe(1);
+      expect(noClinic.chunks.err).toContain('PHL_HANDOUT_CLINIC_NOT_SET');
+      expect(existsSync(out)).toBe(false);
+      const settingsDb = openDb(dbFile);
+      await new SettingsService(settingsDb, { now: () => new Date('2026-12-05T10:00:00Z') }).set(
+        'clinic',
+        { name: 'Test Renal Unit', contact: '555-0100', dietitianName: 'R. Test' },
       );
+      await settingsDb.close();
+      const ok = io();
+      const code = await runCli([...args, '--db', dbFile], ok.io);
       expect(ok.chunks.err).toBe('');
       expect(code).toBe(0);
-      expect(ok.chunks.out).toMatch(/wrote .*plan\.pdf \(3 pages, es, a4; translation drafted/);
+      // A one-day plan prints on a shorter layout (cover, day, foods to watch run on).
+      expect(ok.chunks.out).toMatch(/wrote .*plan\.pdf \([23] pages, es, a4; translation drafted/);
+      expect(readFileSync(out).subarray(0, 5).toString()).toBe('%PDF-');
+      // An existing file is kept unless --force.
+      writeFileSync(out, 'kept');
+      const again = io();
+      expect(await runCli([...args, '--db', dbFile], again.io)).toBe(1);
+      expect(again.chunks.err).toContain('already exists');
+      expect(readFileSync(out, 'utf8')).toBe('kept');
+      const forced = io();
+      expect(await runCli([...args, '--force', '--db', dbFile], forced.io)).toBe(0);
       expect(readFileSync(out).subarray(0, 5).toString()).toBe('%PDF-');
       const bad = io();
       expect(
         await runCli(
-          ['plan', 'print', String(plan.json().id), '--lang', 'xx', '--out', out, '--db', dbFile],
+          [
+            'plan',
+            'print',
+            String(plan.json().id),
+            '--lang',
+            'xx',
+            '--out',
+            out,
+            '--force',
+            '--db',
+            dbFile,
+          ],
           bad.io,
         ),
       ).toBe(1);

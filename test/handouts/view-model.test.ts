@@ -153,6 +153,7 @@ describe('handout view-model (invented demo data)', () => {
           "continuedHeading": "Día 1 (continuación)",
           "heading": "Día 1",
           "label": null,
+          "nameNotes": [],
           "number": 1,
           "occasions": [
             {
@@ -282,7 +283,7 @@ describe('handout view-model (invented demo data)', () => {
             "items": [
               {
                 "grams": 100,
-                "label": "avena",
+                "label": "⁨avena⁩",
                 "portion": "كوب واحد (نحو ١٠٠ غ)",
               },
             ],
@@ -301,7 +302,7 @@ describe('handout view-model (invented demo data)', () => {
             "items": [
               {
                 "grams": 7.5,
-                "label": "queso fundido",
+                "label": "⁨queso fundido⁩",
                 "portion": "٧٫٥ غ",
               },
             ],

@@ -46,9 +46,10 @@ describe('the demo patient (invented demo data): handout and targets', () => {
 
   it('states the full prescribed dose: 6 calcium acetate a day, and every day shows 6', async () => {
     const planId = (db.sqlite.prepare('select id from plan').get() as { id: number }).id;
+    const languages = loadCataloguesOrThrow();
     const handouts = new HandoutService(
-      handoutSourcesFromDb(db, clock),
-      loadCataloguesOrThrow(),
+      handoutSourcesFromDb(db, clock, languages.list()),
+      languages,
       clock,
     );
     const { vm } = await handouts.prepare(planId, { lang: 'en', mode: 'refuse' });

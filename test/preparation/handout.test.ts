@@ -109,7 +109,10 @@ describe('handout: how to cook prepared foods, in every handout language', () =>
     for (const lang of ['hi', 'ar', 'zh-Hans']) {
       const pdf = await renderHandoutPdf(vmFor(lang), 'a4');
       expect(pdf.missingCodePoints, lang).toEqual([]);
-      expect(pdf.pageCount, lang).toBe(4); // cover, day, how to cook, foods to watch
+      // one-day layout: the cover with foods to watch, the day, how to cook (3 or 4 pages as
+      // the language's lines run)
+      expect(pdf.pageCount, lang).toBeGreaterThanOrEqual(3);
+      expect(pdf.pageCount, lang).toBeLessThanOrEqual(4);
     }
   });
 });

@@ -2,6 +2,7 @@
 // limit is the plans API's own rule (common practice, no source).
 import { describe, expect, it } from 'vitest';
 import {
+  copyDay,
   addDay,
   addItem,
   addOccasion,
@@ -93,5 +94,48 @@ describe('plate ledger draft: editing', () => {
         { foodId: 8, grams: 30, label: 'leche' },
       ],
     });
+  });
+});
+
+describe('plate ledger draft: copying a day (invented demo plan)', () => {
+  // Invented demo data: grams are made up.
+  const base = {
+    name: 'Copy test',
+    days: [
+      {
+        label: 'Monday',
+        occasions: [
+          {
+            name: 'Breakfast',
+            items: [{ foodId: 1, grams: 58, measure: { portionId: 7, count: 2 }, label: 'toast' }],
+          },
+        ],
+      },
+      {
+        label: 'Dialysis day',
+        occasions: [{ name: 'Lunch', items: [{ foodId: 2, grams: 100, measure: null }] }],
+      },
+      { label: 'Wednesday', occasions: [] },
+    ],
+  };
+
+  it('puts the day’s meals on the chosen days, keeping their labels; the source is unchanged', () => {
+    const next = copyDay(base, 0, [1, 2]);
+    expect(next.days.map((d) => d.label)).toEqual(['Monday', 'Dialysis day', 'Wednesday']);
+    expect(next.days[1]?.occasions).toEqual(base.days[0]?.occasions);
+    expect(next.days[2]?.occasions).toEqual(base.days[0]?.occasions);
+    // Copies, not shared objects: a later change to one day leaves the others alone.
+    expect(next.days[1]?.occasions[0]?.items[0]).not.toBe(base.days[0]?.occasions[0]?.items[0]);
+    expect(next.days[1]?.occasions[0]?.items[0]?.measure).not.toBe(
+      base.days[0]?.occasions[0]?.items[0]?.measure,
+    );
+    expect(base.days[1]?.occasions[0]?.name).toBe('Lunch');
+  });
+
+  it('copies onto a new day at the end, and never onto itself', () => {
+    const added = copyDay(base, 1, 'new');
+    expect(added.days).toHaveLength(4);
+    expect(added.days[3]).toEqual({ label: 'Day 4', occasions: base.days[1]?.occasions });
+    expect(copyDay(base, 0, [0])).toEqual(base);
   });
 });

@@ -35,11 +35,25 @@ export interface TextSurface {
   fontSize(size: number): TextSurface;
   fillColor(color: string): TextSurface;
   text(text: string, x: number, y: number, options: Record<string, unknown>): unknown;
+  /** Marked content (PDFKit's markContent): a Span carrying the line's ActualText. */
+  markContent?(tag: string, options?: Record<string, unknown>): unknown;
+  endMarkedContent?(): unknown;
   /** PDFKit's internal one-line drawing step, used when present (see drawLine). */
   _fragment?(text: string, x: number, y: number, options: Record<string, unknown>): unknown;
 }
 
 const RTL_SCRIPT = /[\p{Script=Arabic}\p{Script=Hebrew}]/u;
+/** Scripts whose glyphs do not map back to the text one to one (joining, reordering, conjuncts). */
+const SHAPED_SCRIPT =
+  /[\p{Script=Arabic}\p{Script=Hebrew}\p{Script=Syriac}\p{Script=Thaana}\p{Script=Devanagari}\p{Script=Bengali}\p{Script=Gurmukhi}\p{Script=Gujarati}\p{Script=Oriya}\p{Script=Tamil}\p{Script=Telugu}\p{Script=Kannada}\p{Script=Malayalam}\p{Script=Sinhala}\p{Script=Thai}\p{Script=Khmer}\p{Script=Myanmar}]/u;
+/** Directional marks and isolates (UAX #9): they steer the bidi levels and are never drawn. */
+const BIDI_CONTROL = /[\u200e\u200f\u202a-\u202e\u2066-\u2069]/u;
+const BIDI_CONTROLS = /[\u200e\u200f\u202a-\u202e\u2066-\u2069]/gu;
+
+/** The text a reader should get back from a drawn line: logical order, no bidi controls. */
+export function actualTextOf(line: string): string {
+  return line.replace(BIDI_CONTROLS, '');
+}
 const STRONG_RTL = /[\u0590-\u08ff\ufb1d-\ufdff\ufe70-\ufefc]/u;
 /** Break opportunities: between any two ideographs, and at spaces elsewhere. */
 const TOKEN =
@@ -181,6 +195,7 @@ export class TextEngine {
       const cp = ch.codePointAt(0) as number;
       const level = levels ? (levels[index] ?? 0) : 0;
       index += ch.length;
+      if (BIDI_CONTROL.test(ch)) continue;
       const prev = logical[logical.length - 1];
       let family: FontFamily | null;
       if (prev && prev.level === level && getFont(prev.family, style.weight).hasGlyph(cp)) {
@@ -261,29 +276,46 @@ export class TextEngine {
     if (align === 'center') cx = x + (widthPt - total) / 2;
     else if ((align === 'start') === startIsLeft) cx = x;
     else cx = x + widthPt - total;
+    // Shaped glyphs (Arabic joining forms, Devanagari reordering, reversed runs) do not map
+    // back to the text through the font's ToUnicode map alone: the line's logical text goes
+    // along as the span's ActualText (PDF 1.7, 14.9.4), which text extraction and screen
+    // readers use instead of the glyphs.
+    const actual = actualTextOf(line);
+    // Only shaped scripts need it: Latin, Cyrillic and Han glyphs map back one to one, and
+    // poppler orders spans by their width, which reorders wrapped Latin lines.
+    const marked = this.surface.markContent !== undefined && SHAPED_SCRIPT.test(actual);
+    if (marked) this.surface.markContent?.('Span', { actual });
     for (const r of runs) {
-      const key = this.use(r.family, style.weight);
-      const surface = this.surface.font(key).fontSize(style.sizePt).fillColor(style.color);
-      if (surface._fragment) {
-        // PDFKit's text() re-measures every string and runs its line wrapper; the line is already
-        // laid out, so the single-fragment step is called with the width we measured (about a
-        // third of the cost per run). Pinned to pdfkit 0.20.x; text() is the fallback.
-        surface._fragment(r.text, cx, baselineY, {
-          features: [],
-          baseline: 'alphabetic',
-          textWidth: r.widthPt,
-          wordCount: 1,
-        });
-      } else {
-        surface.text(r.text, cx, baselineY, {
-          lineBreak: false,
-          features: [],
-          baseline: 'alphabetic',
-        });
-      }
+      this.drawRun(r.text, r.family, cx, baselineY, style, r.widthPt);
       cx += r.widthPt;
     }
+    if (marked) this.surface.endMarkedContent?.();
     return total;
+  }
+
+  private drawRun(
+    text: string,
+    family: FontFamily,
+    x: number,
+    baselineY: number,
+    style: TextStyle,
+    widthPt: number,
+  ): void {
+    const key = this.use(family, style.weight);
+    const surface = this.surface.font(key).fontSize(style.sizePt).fillColor(style.color);
+    if (surface._fragment) {
+      // PDFKit's text() re-measures every string and runs its line wrapper; the line is already
+      // laid out, so the single-fragment step is called with the width we measured (about a
+      // third of the cost per run). Pinned to pdfkit 0.20.x; text() is the fallback.
+      surface._fragment(text, x, baselineY, {
+        features: [],
+        baseline: 'alphabetic',
+        textWidth: widthPt,
+        wordCount: 1,
+      });
+    } else {
+      surface.text(text, x, baselineY, { lineBreak: false, features: [], baseline: 'alphabetic' });
+    }
   }
 
   private use(family: FontFamily, weight: FontWeight): string {

@@ -147,3 +147,28 @@ export function toPlanInput(d: PlanDraft) {
     })),
   };
 }
+
+/**
+ * Copies one day's meals onto other days (their own labels kept; what they held is replaced),
+ * or onto a new day at the end when `to` is 'new'. Items are copied, not shared.
+ */
+export function copyDay(d: PlanDraft, from: number, to: readonly number[] | 'new'): PlanDraft {
+  const source = d.days[from];
+  if (!source) return d;
+  const occasions = (): DraftOccasion[] =>
+    source.occasions.map((o) => ({
+      ...o,
+      items: o.items.map((it) => ({ ...it, measure: it.measure ? { ...it.measure } : null })),
+    }));
+  if (to === 'new') {
+    return {
+      ...d,
+      days: [...d.days, { label: newDay(d.days.length).label, occasions: occasions() }],
+    };
+  }
+  const targets = new Set(to.filter((i) => i !== from));
+  return {
+    ...d,
+    days: d.days.map((day, i) => (targets.has(i) ? { ...day, occasions: occasions() } : day)),
+  };
+}

@@ -6,6 +6,7 @@ import { g, kcal, mg, range, ratio } from '../format.js';
 import type { Target } from '../patient-types.js';
 import {
   addDay,
+  copyDay,
   addItem,
   addOccasion,
   checkQuantity,
@@ -79,7 +80,27 @@ function setSaveState(text: string, error = false): void {
   el.className = `save-state${error ? ' error' : ''}`;
 }
 
-/** Every change is saved as a new version of the plan (earlier versions are kept), then summed. */
+/** The draft answer: the summary of the plan as edited, without a new version. */
+interface DraftSaved {
+  baseVersion: number;
+  updatedAt: string;
+  summary: PlanSummary;
+}
+
+const draftUrl = `/api/plans/${planId}/draft`;
+/** Edits autosaved as a draft that no saved version holds yet, and how many. */
+let draftPending = false;
+let draftEdits = 0;
+
+function draftState(): string {
+  const since = plan?.version ? ` since version ${plan.version}` : '';
+  return `Saved as a draft: ${draftEdits} ${draftEdits === 1 ? 'change' : 'changes'}${since}, not yet a version`;
+}
+
+/**
+ * Every change is autosaved as the plan's draft and summed by the server; a version is kept
+ * only when the dietitian saves (or opens the take-home sheet to print).
+ */
 async function commit(next: PlanDraft): Promise<void> {
   draft = next;
   dirty = true;
@@ -87,16 +108,92 @@ async function commit(next: PlanDraft): Promise<void> {
   setSaveState('Saving…');
   const mine = ++summarySeq;
   try {
-    const saved = await api<PlanJson>('PUT', endpoints.plan(planId), toPlanInput(draft));
+    const saved = await api<DraftSaved>('PUT', draftUrl, toPlanInput(draft));
     if (mine !== summarySeq) return;
+    dirty = false;
+    draftPending = true;
+    draftEdits++;
+    byId<HTMLButtonElement>('save-version-btn').disabled = false;
+    setSaveState(draftState());
+    summary = saved.summary;
+    renderMeals();
+    renderSide();
+  } catch (err) {
+    if (mine === summarySeq) setSaveState(`Not saved: ${errorText(err)}`, true);
+  }
+}
+
+/** Keeps the plan as edited as a new version (the draft becomes that version). */
+async function saveVersion(): Promise<boolean> {
+  const mine = ++summarySeq;
+  setSaveState('Saving a version…');
+  try {
+    const saved = await api<PlanJson>('PUT', endpoints.plan(planId), toPlanInput(draft));
     plan = saved;
     draft = withResolvedBasis(draft, saved);
+    draftPending = false;
+    draftEdits = 0;
     dirty = false;
+    byId<HTMLButtonElement>('save-version-btn').disabled = true;
     setSaveState(saved.version ? `Saved as version ${saved.version}` : 'Saved');
     await refreshSummary(mine);
     void renderVersions();
+    return true;
   } catch (err) {
-    if (mine === summarySeq) setSaveState(`Not saved: ${errorText(err)}`, true);
+    setSaveState(`Not saved: ${errorText(err)}`, true);
+    return false;
+  }
+}
+byId('save-version-btn').addEventListener('click', () => void saveVersion());
+// Printing keeps a version: the sheet is always the sheet of a saved version.
+byId<HTMLAnchorElement>('handout-link').addEventListener('click', (e) => {
+  if (!draftPending || pastVersion !== null) return;
+  e.preventDefault();
+  const href = byId<HTMLAnchorElement>('handout-link').href;
+  void saveVersion().then((ok) => {
+    if (ok) location.href = href;
+  });
+});
+
+/** The editor's days rebuilt from a draft's summary (grams and measures as resolved). */
+function draftFromSummary(name: string, s: PlanSummary): PlanDraft {
+  return {
+    name,
+    days: s.days.map((d) => ({
+      label: d.label,
+      occasions: d.occasions.map((o) => ({
+        name: o.name,
+        kind: o.kind,
+        time: o.time,
+        items: o.items.map((i) => ({
+          foodId: i.foodId,
+          grams: i.grams,
+          measure: i.measure ? { ...i.measure } : null,
+          label: i.label === i.foodName ? null : i.label,
+        })),
+      })),
+    })),
+  };
+}
+
+/** Opens the unsaved draft left by an earlier visit, unless a version was saved after it. */
+async function resumeDraft(): Promise<void> {
+  let found: { input: unknown; stale: boolean; updatedAt: string };
+  try {
+    found = await api('GET', draftUrl);
+  } catch {
+    return; // no draft
+  }
+  if (found.stale) return;
+  try {
+    const saved = await api<DraftSaved>('PUT', draftUrl, found.input);
+    summary = saved.summary;
+    draft = draftFromSummary(draft.name, saved.summary);
+    draftPending = true;
+    byId<HTMLButtonElement>('save-version-btn').disabled = false;
+    setSaveState(`Unsaved draft from ${savedAt(found.updatedAt)} (not yet a version)`);
+  } catch {
+    // A draft that no longer checks (a food removed by a re-import) is left; the version shows.
   }
 }
 
@@ -265,39 +362,77 @@ function summaryItem(day: number, occ: number, k: number): SummaryItem | undefin
   return summaryDay(day)?.occasions[occ]?.items[k];
 }
 
-function evidenceOf(item: SummaryItem | undefined): {
+/** A flag's evidence: one short line for the tooltip, the rest behind "sources", by basis. */
+interface FlagEvidence {
   additive: boolean;
   highRatio: boolean;
-  lines: string[];
-} {
-  if (!item) return { additive: false, highRatio: false, lines: [] };
+  /** The tooltip: one line about this item. */
+  short: string;
+  /** Figures for this item (its grams), one per line. */
+  itemLines: string[];
+  /** The food's profile: figures per 100 g as the table gives them, one per line. */
+  per100gLines: string[];
+}
+
+function evidenceOf(item: SummaryItem | undefined): FlagEvidence {
+  if (!item) {
+    return { additive: false, highRatio: false, short: '', itemLines: [], per100gLines: [] };
+  }
   const found = summary?.flags.additiveFoods.find((f) => f.foodId === item.foodId);
-  const lines = [...(found?.evidence ?? [])];
-  if (item.nutrients.additivePhosphorusMg)
-    lines.push(
-      `Estimated additive phosphorus in this item: ${mg(item.nutrients.additivePhosphorusMg)}`,
-    );
-  lines.push(`Phosphorus split by: ${item.splitMethod}`);
-  return { additive: item.flags.additive, highRatio: item.flags.highRatio, lines };
+  const additiveMg = item.nutrients.additivePhosphorusMg;
+  const itemLines = [
+    ...(additiveMg ? [`Additive phosphorus: about ${mg(additiveMg)}`] : []),
+    `Phosphorus split by: ${item.splitMethod}`,
+  ];
+  const short = additiveMg
+    ? `Phosphate additives likely: about ${mg(additiveMg)} in this ${fmtN(item.grams)} g.`
+    : 'Phosphate additives likely in this food.';
+  return {
+    additive: item.flags.additive,
+    highRatio: item.flags.highRatio,
+    short,
+    itemLines,
+    per100gLines: [...(found?.evidence ?? [])],
+  };
 }
 
 let tipSeq = 0;
-function flagWithTip(kind: 'additive' | 'ratio', text: string, lines: string[]): HTMLElement {
+/** A flag with a one-line tooltip and, when there is more, a "sources" disclosure beside it. */
+function flagWithTip(
+  kind: 'additive' | 'ratio',
+  text: string,
+  short: string,
+  more: { heading: string; lines: string[] }[] = [],
+): HTMLElement {
   const id = `tip-${++tipSeq}`;
-  return h(
+  const flag = h(
     'span',
     { class: `flag flag-${kind} has-tip`, tabindex: '0', 'aria-describedby': id },
     text,
+    h('span', { class: 'tip', role: 'tooltip', id }, short),
+  );
+  const groups = more.filter((g) => g.lines.length > 0);
+  if (groups.length === 0) return flag;
+  return h(
+    'span',
+    { class: 'flag-with-sources' },
+    flag,
     h(
-      'span',
-      { class: 'tip', role: 'tooltip', id },
-      lines.length
-        ? h(
+      'details',
+      { class: 'sources' },
+      h('summary', {}, 'sources'),
+      h(
+        'div',
+        { class: 'sources-body' },
+        groups.flatMap((g) => [
+          h('p', { class: 'sources-basis' }, g.heading),
+          h(
             'ul',
             {},
-            lines.map((l) => h('li', {}, l)),
-          )
-        : 'No further evidence recorded.',
+            g.lines.map((l) => h('li', {}, l)),
+          ),
+        ]),
+      ),
     ),
   );
 }
@@ -514,6 +649,7 @@ function quantityCell(day: number, occ: number, k: number, item: DraftItem): HTM
 }
 
 function renderTabs(): void {
+  fillCopyTargets();
   const tabs = byId('day-tabs');
   fill(
     tabs,
@@ -622,12 +758,22 @@ function renderMeals(): void {
                       {},
                       h('span', {}, name),
                       ' ',
-                      ev.additive ? flagWithTip('additive', 'additive P', ev.lines) : null,
+                      ev.additive
+                        ? flagWithTip('additive', 'additive P', ev.short, [
+                            {
+                              heading: `This item (${fmtN(s?.grams ?? 0)} g)`,
+                              lines: ev.itemLines,
+                            },
+                            { heading: 'The food, per 100 g', lines: ev.per100gLines },
+                          ])
+                        : null,
                       ' ',
                       ev.highRatio
-                        ? flagWithTip('ratio', 'high ratio', [
-                            `${ratio(s?.nutrients.phosphorusProteinRatioMgPerG)} phosphorus per gram of protein`,
-                          ])
+                        ? flagWithTip(
+                            'ratio',
+                            'high ratio',
+                            `${ratio(s?.nutrients.phosphorusProteinRatioMgPerG)} phosphorus per gram of protein (the food, any amount).`,
+                          )
                         : null,
                       wordsInput(activeDay, j, k, item, name),
                       preparationCell(activeDay, j, k, item, name, s),
@@ -1056,6 +1202,26 @@ function renderSide(): void {
 
 // ---- days and occasions ----------------------------------------------------------------------
 
+/** The "copy this day" choices: every other day, each day, or a new day. */
+function fillCopyTargets(): void {
+  const others = draft.days.map((d, i) => ({ d, i })).filter((x) => x.i !== activeDay);
+  fill(
+    byId('copy-day-to'),
+    others.length > 1 ? h('option', { value: 'others' }, 'every other day') : null,
+    others.map((x) => h('option', { value: String(x.i) }, x.d.label)),
+    h('option', { value: 'new' }, 'a new day'),
+  );
+}
+byId<HTMLFormElement>('copy-day-form').addEventListener('submit', (e) => {
+  e.preventDefault();
+  const choice = byId<HTMLSelectElement>('copy-day-to').value || 'new';
+  const others = draft.days.map((_, i) => i).filter((i) => i !== activeDay);
+  const to = choice === 'new' ? 'new' : choice === 'others' ? others : [Number(choice)];
+  const next = copyDay(draft, activeDay, to);
+  if (to === 'new') activeDay = next.days.length - 1;
+  void commit(next);
+});
+
 byId('add-day-btn').addEventListener('click', () => {
   activeDay = draft.days.length;
   void commit(addDay(draft));
@@ -1104,9 +1270,10 @@ async function renderVersions(): Promise<void> {
       const detail = ` · ${savedAt(v.createdAt)} · ${v.days} ${v.days === 1 ? 'day' : 'days'}${v.note ? ` · ${v.note}` : ''}`;
       const href =
         v.version === latest ? `/plans/${planId}` : `/plans/${planId}?version=${v.version}`;
+      // A plain list: the label carries the number (a numbered list counted down to "0.").
       return h(
         'li',
-        { value: String(v.version) },
+        {},
         v.version === shown
           ? h('strong', { 'aria-current': 'page' }, label)
           : h('a', { href }, label),
@@ -1179,6 +1346,7 @@ async function start(): Promise<void> {
   byId<HTMLAnchorElement>('handout-link').href =
     `/plans/${planId}/preview${pastVersion === null ? '' : `?version=${pastVersion}`}`;
   if (pastVersion !== null) showPastVersion(plan);
+  else await resumeDraft();
   void renderVersions();
   const ids = new Set(
     draft.days.flatMap((d) => d.occasions.flatMap((o) => o.items.map((i) => i.foodId))),
@@ -1187,8 +1355,9 @@ async function start(): Promise<void> {
   const foodsP = Promise.all([...ids].map((id) => loadFood(id)));
   if (pastVersion === null) searchInput.focus();
   const res = await summaryP;
-  if (res.ok) summary = res.v;
-  else setSaveState(`Totals unavailable: ${errorText(res.err)}`, true);
+  // A resumed draft already has its own summary.
+  if (!res.ok) setSaveState(`Totals unavailable: ${errorText(res.err)}`, true);
+  else if (!draftPending) summary = res.v;
   renderMeals();
   renderSide();
   await foodsP;

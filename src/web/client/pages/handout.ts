@@ -2,6 +2,7 @@ import { api } from '../api.js';
 import { initChrome } from '../chrome.js';
 import { byId, errorText, pageParams } from '../dom.js';
 import { endpoints } from '../endpoints.js';
+import { initFoodNames } from '../food-names.js';
 import type { Patient } from '../patient-types.js';
 
 initChrome();
@@ -37,6 +38,7 @@ async function show(): Promise<void> {
     const res = await fetch(url, { credentials: 'same-origin', headers: { accept: 'text/html' } });
     const text = await res.text();
     if (!res.ok) throw new Error(`${res.status}: ${text.slice(0, 200)}`);
+    showClinicCheck(res.headers.get('x-phosledger-clinic-missing') ?? '');
     frame.srcdoc = text;
     frame.dataset.lang = lang;
   } catch (err) {
@@ -44,11 +46,26 @@ async function show(): Promise<void> {
   }
 }
 
+/** A real patient's sheet prints only with the clinic's own details: say so, and hold the PDF. */
+function showClinicCheck(missing: string): void {
+  const notice = byId('handout-clinic-missing');
+  notice.hidden = missing === '';
+  pdf.setAttribute('aria-disabled', missing === '' ? 'false' : 'true');
+  pdf.classList.toggle('is-disabled', missing !== '');
+}
+pdf.addEventListener('click', (e) => {
+  if (pdf.getAttribute('aria-disabled') === 'true') e.preventDefault();
+});
+
 function escapeHtml(s: string): string {
   return s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
 }
 
-langSel.addEventListener('change', () => void show());
+const foodNames = initFoodNames(planId, () => langSel.value, version, show);
+langSel.addEventListener('change', () => {
+  void show();
+  void foodNames.refresh();
+});
 paperSel.addEventListener('change', () => void show());
 byId('handout-print').addEventListener('click', () => frame.contentWindow?.print());
 
@@ -66,5 +83,6 @@ async function start(): Promise<void> {
     }
   }
   await show();
+  await foodNames.refresh();
 }
 void start();
