@@ -241,4 +241,3 @@ export const setupRoutes: FastifyPluginAsync<{ db: Db; clock: Clock; auth: AuthS
     },
   );
 };
-
