@@ -39,7 +39,7 @@ async function readAll(set: FileSet, ctx: ImportContext): Promise<void> {
   const file = entry.name;
   progress.setFile(file);
   let nutrients: Array<{ column: string; index: number; defId: number }> | null = null;
-  const stream = await entry.open();
+  const stream = await entry.open(progress.bytes);
   const text = (row: CsvRow, c: string) => row.get(c).trim();
   for await (const batch of readCsv(stream, {
     file,
@@ -47,7 +47,6 @@ async function readAll(set: FileSet, ctx: ImportContext): Promise<void> {
     quoted: false, // the export never quotes; a '"' is part of the text
     required: ['code', 'product_name'],
     issues,
-    onBytes: progress.bytes,
   })) {
     if (!nutrients) {
       const first = batch[0];
@@ -150,7 +149,7 @@ export const offCsv: Importer = {
     let set: FileSet;
     try {
       if (!path) throw structural('(none)', null, ImportCodes.notFound, 'off-csv needs a file');
-      set = await openFileSet(path);
+      set = await openFileSet(path, options.limits);
       if (set.entries.length !== 1) {
         throw structural(
           path,
@@ -163,9 +162,7 @@ export const offCsv: Importer = {
       return failedBeforeStart(meta.format, err);
     }
     try {
-      return await runImport(db, meta, options, set.entries[0]?.size ?? 0, (ctx) =>
-        readAll(set, ctx),
-      );
+      return await runImport(db, meta, options, set.entries, (ctx) => readAll(set, ctx));
     } finally {
       set.close();
     }

@@ -1,5 +1,6 @@
 import type Database from 'better-sqlite3';
 import type { Db } from '../src/db/database.js';
+import { createStaging, type StagingFile } from './staging.js';
 
 /** Provenance of one release of one table. */
 export interface SourceMeta {
@@ -31,7 +32,11 @@ export interface FoodInput {
   ingredients?: string | null;
   ingredientsLang?: string | null;
   servingG?: number | null;
+  /** A serving given as a volume (ml), kept as volume: no grams without a density. */
+  servingMl?: number | null;
   servingText?: string | null;
+  /** SR28 NDB number, where the table gives one (links the same food across releases). */
+  ndbNumber?: string | null;
   additiveScan?: string | null;
   additiveScanVersion?: string | null;
 }
@@ -69,115 +74,154 @@ export function unitFactor(from: string, to: string): number | null {
   return null;
 }
 
+
+/** The s_food columns a format may set after adding a food (FDC's branded_food.csv). */
+export type FoodUpdate = Partial<
+  Pick<
+    FoodInput,
+    | 'brandOwner'
+    | 'gtin'
+    | 'ingredients'
+    | 'ingredientsLang'
+    | 'servingG'
+    | 'servingMl'
+    | 'servingText'
+    | 'group'
+    | 'altNames'
+    | 'additiveScan'
+    | 'additiveScanVersion'
+    | 'ndbNumber'
+  >
+>;
+
+const UPDATE_COLUMNS: Record<keyof FoodUpdate, string> = {
+  brandOwner: 'brand_owner',
+  gtin: 'gtin',
+  ingredients: 'ingredients',
+  ingredientsLang: 'ingredients_lang',
+  servingG: 'serving_g',
+  servingMl: 'serving_ml',
+  servingText: 'serving_text',
+  group: 'food_group',
+  altNames: 'alt_names',
+  additiveScan: 'additive_scan',
+  additiveScanVersion: 'additive_scan_version',
+  ndbNumber: 'ndb_number',
+};
+
+/** The food columns copied from staging on publish (besides id, source_id and code). */
+const FOOD_COPY = [
+  'name',
+  'alt_names',
+  'food_group',
+  'kind',
+  'brand_owner',
+  'gtin',
+  'ingredients',
+  'ingredients_lang',
+  'serving_g',
+  'serving_ml',
+  'serving_text',
+  'additive_scan',
+  'additive_scan_version',
+  'ndb_number',
+  ...CORE_COLUMNS.map((c) => c.column),
+];
+
+/** Staging writes between commits of the staging file (bounds its page cache; no source). */
+const STAGE_BATCH = 100_000;
+
+export interface PublishCounts {
+  sourceId: number;
+  foods: number;
+  values: number;
+  portions: number;
+  /** Milliseconds the clinic database's write lock was held. */
+  lockMs: number;
+}
+
 /**
- * Writes one release of one table inside one transaction (better-sqlite3 prepared statements:
- * the fast path). Re-importing the same format and release updates foods in place, keeping their
- * ids (plans and diaries refer to them), replaces their values and portions, and removes foods
- * the new file no longer has. Nothing is visible to other connections until `commit()`; a
- * `rollback()` (or a killed process) leaves the database exactly as it was.
+ * Writes one release of one table. Everything an import reads goes first into a private
+ * staging file (`staging.ts`); the clinic's database is only written by `publish()`, in one
+ * transaction that copies the staged release in with set-based SQL. Re-importing the same
+ * format and release updates foods in place, keeping their ids (plans and diaries refer to
+ * them), matched by code in SQL (no per-food memory); foods the new file no longer has are
+ * removed. A failure before or during publish (or a killed process) leaves the database
+ * exactly as it was.
  */
 export class SourceWriter {
-  readonly sourceId: number;
-  readonly replaced: boolean;
+  private readonly staging: StagingFile;
+  private readonly s: Database.Database;
   private readonly insValue: Database.Statement;
-  /** Called for a value whose food already has that nutrient in this import (row skipped). */
-  onDuplicateValue: (file: string, line: number) => void = () => undefined;
   private readonly insPortion: Database.Statement;
   private readonly insFood: Database.Statement;
-  private readonly updFood: Database.Statement;
-  /** On a re-import: the food ids of the earlier release by code, and which were seen again. */
-  private readonly previous = new Map<string, number>();
-  private readonly seenAgain = new Set<number>();
+  private readonly insFoodWithId: Database.Statement;
+  private readonly hasFoodStmt: Database.Statement;
   private readonly upsertDef: Database.Statement;
-  private open = true;
+  private readonly updates = new Map<string, Database.Statement>();
+  private pending = 0;
+  /** Called for a value whose food already has that nutrient in this import (row skipped). */
+  onDuplicateValue: (file: string, line: number) => void = () => undefined;
   values = 0;
   portions = 0;
   foods = 0;
 
   private constructor(
-    private readonly sqlite: Database.Database,
-    meta: SourceMeta,
+    private readonly db: Db,
+    private readonly meta: SourceMeta,
+    stagingDirPath: string,
   ) {
-    const s = sqlite;
-    const prev = s
-      .prepare('select id from food_source where format = ? and release = ?')
-      .get(meta.format, meta.release) as { id: number } | undefined;
-    this.replaced = prev !== undefined;
-    if (prev) {
-      this.sourceId = prev.id;
-      s.prepare(
-        'update food_source set name = ?, licence = ?, url = ?, imported_at = ? where id = ?',
-      ).run(meta.name, meta.licence, meta.url, meta.importedAt, prev.id);
-      const inSource = 'select id from food where source_id = ?';
-      s.prepare(`delete from food_fts where rowid in (${inSource})`).run(prev.id);
-      s.prepare(`delete from nutrient_value where food_id in (${inSource})`).run(prev.id);
-      s.prepare(`delete from portion where food_id in (${inSource})`).run(prev.id);
-    } else {
-      const r = s
-        .prepare(
-          `insert into food_source (format, name, release, licence, url, imported_at)
-           values (?, ?, ?, ?, ?, ?)`,
-        )
-        .run(meta.format, meta.name, meta.release, meta.licence, meta.url, meta.importedAt);
-      this.sourceId = Number(r.lastInsertRowid);
-    }
-    if (prev) {
-      const rows = s.prepare('select code, id from food where source_id = ?').raw().all(prev.id);
-      for (const [code, id] of rows as Array<[string, number]>) this.previous.set(code, id);
-    }
-    // A plain insert (about 6x faster than an upsert with RETURNING here); a re-import updates
-    // the earlier row by id so plans and diaries keep pointing at the same food.
-    this.insFood = s.prepare(
-      `insert into food (source_id, code, name, alt_names, food_group, kind, brand_owner, gtin,
-         ingredients, ingredients_lang, serving_g, serving_text, additive_scan, additive_scan_version)
-       values (@sourceId, @code, @name, @altNames, @group, @kind, @brandOwner, @gtin,
-         @ingredients, @ingredientsLang, @servingG, @servingText, @additiveScan, @additiveScanVersion)`,
-    );
-    this.updFood = s.prepare(
-      `update food set name = @name, alt_names = @altNames, food_group = @group, kind = @kind,
-         brand_owner = @brandOwner, gtin = @gtin, ingredients = @ingredients,
-         ingredients_lang = @ingredientsLang, serving_g = @servingG, serving_text = @servingText,
-         additive_scan = @additiveScan, additive_scan_version = @additiveScanVersion
-       where id = @id`,
-    );
+    this.staging = createStaging(stagingDirPath);
+    const s = (this.s = this.staging.sqlite);
+    const cols = `code, name, alt_names, food_group, kind, brand_owner, gtin, ingredients,
+      ingredients_lang, serving_g, serving_ml, serving_text, additive_scan, additive_scan_version, ndb_number`;
+    const vals = `@code, @name, @altNames, @group, @kind, @brandOwner, @gtin, @ingredients,
+      @ingredientsLang, @servingG, @servingMl, @servingText, @additiveScan, @additiveScanVersion, @ndbNumber`;
+    this.insFood = s.prepare(`insert into s_food (${cols}) values (${vals})`);
+    this.insFoodWithId = s.prepare(`insert into s_food (id, ${cols}) values (@id, ${vals})`);
+    this.hasFoodStmt = s.prepare('select 1 from s_food where id = ?').pluck();
     this.upsertDef = s.prepare(
-      `insert into nutrient_def (source_id, code, name, unit, tag, sort_order)
-       values (?, ?, ?, ?, ?, ?)
-       on conflict (source_id, code) do update set name = excluded.name, unit = excluded.unit,
+      `insert into s_def (code, name, unit, tag, sort_order) values (?, ?, ?, ?, ?)
+       on conflict (code) do update set name = excluded.name, unit = excluded.unit,
          tag = excluded.tag, sort_order = excluded.sort_order
        returning id`,
     );
     this.insValue = s.prepare(
-      `insert into nutrient_value (food_id, nutrient_def_id, value_per_100g, derivation_code, source_code)
-       values (?, ?, ?, ?, ?)`,
+      'insert into s_value (food_id, def_id, value, derivation_code, source_code) values (?, ?, ?, ?, ?)',
     );
     this.insPortion = s.prepare(
-      'insert into portion (food_id, seq, amount, description, grams) values (?, ?, ?, ?, ?)',
+      'insert into s_portion (food_id, seq, amount, description, grams) values (?, ?, ?, ?, ?)',
     );
+    s.exec('begin');
   }
 
-  /** Starts the one transaction of this import (waits up to the busy timeout for a writer). */
-  static begin(db: Db, meta: SourceMeta): SourceWriter {
-    db.sqlite.exec('begin immediate');
-    try {
-      return new SourceWriter(db.sqlite, meta);
-    } catch (err) {
-      db.sqlite.exec('rollback');
-      throw err;
-    }
+  /** Opens a staging file for one import (in `dir`: beside the database, same disk). */
+  static open(db: Db, meta: SourceMeta, dir: string): SourceWriter {
+    return new SourceWriter(db, meta, dir);
+  }
+
+  get stagingPath(): string {
+    return this.staging.path;
+  }
+
+  private wrote(): void {
+    if (++this.pending < STAGE_BATCH) return;
+    this.pending = 0;
+    this.s.exec('commit');
+    this.s.exec('begin');
   }
 
   defineNutrient(d: NutrientDefInput): number {
-    const r = this.upsertDef.get(this.sourceId, d.code, d.name, d.unit, d.tag, d.sortOrder) as {
-      id: number;
-    };
-    return r.id;
+    return this.upsertDef.pluck().get(d.code, d.name, d.unit, d.tag, d.sortOrder) as number;
   }
 
-  /** Adds a food; returns its id, or null when this import already had the same code. */
-  addFood(f: FoodInput): number | null {
+  /**
+   * Adds a food; returns its staging id, or null when this import already had the same code.
+   * `id` fixes the staging id (a table's own integer key, so later files find the food by it
+   * with `hasFood` instead of a map in memory).
+   */
+  addFood(f: FoodInput, id?: number): number | null {
     const row = {
-      sourceId: this.sourceId,
       code: f.code,
       name: f.name,
       altNames: JSON.stringify(f.altNames),
@@ -188,27 +232,50 @@ export class SourceWriter {
       ingredients: f.ingredients ?? null,
       ingredientsLang: f.ingredientsLang ?? null,
       servingG: f.servingG ?? null,
+      servingMl: f.servingMl ?? null,
       servingText: f.servingText ?? null,
       additiveScan: f.additiveScan ?? null,
       additiveScanVersion: f.additiveScanVersion ?? null,
+      ndbNumber: f.ndbNumber ?? null,
     };
-    const earlier = this.previous.get(f.code);
-    if (earlier !== undefined) {
-      if (this.seenAgain.has(earlier)) return null;
-      this.seenAgain.add(earlier);
-      this.updFood.run({ ...row, id: earlier });
-      this.foods++;
-      return earlier;
-    }
     try {
-      const r = this.insFood.run(row);
+      const r =
+        id === undefined ? this.insFood.run(row) : this.insFoodWithId.run({ ...row, id });
       this.foods++;
+      this.wrote();
       return Number(r.lastInsertRowid);
     } catch (err) {
-      // The unique (source, code) key: this import already had the code.
-      if ((err as { code?: string }).code === 'SQLITE_CONSTRAINT_UNIQUE') return null;
+      // The unique code (or the given id): this import already had the food.
+      const code = (err as { code?: string }).code;
+      if (code === 'SQLITE_CONSTRAINT_UNIQUE' || code === 'SQLITE_CONSTRAINT_PRIMARYKEY')
+        return null;
       throw err;
     }
+  }
+
+  /** True when this import has a food with this staging id. */
+  hasFood(id: number): boolean {
+    return this.hasFoodStmt.get(id) !== undefined;
+  }
+
+  /** Sets label fields of a staged food (columns named in `fields` only). */
+  updateFood(id: number, fields: FoodUpdate): void {
+    const keys = (Object.keys(fields) as Array<keyof FoodUpdate>).sort();
+    const sig = keys.join(',');
+    let stmt = this.updates.get(sig);
+    if (!stmt) {
+      stmt = this.s.prepare(
+        `update s_food set ${keys.map((k) => `${UPDATE_COLUMNS[k]} = @${k}`).join(', ')} where id = @id`,
+      );
+      this.updates.set(sig, stmt);
+    }
+    const params: Record<string, unknown> = { id };
+    for (const k of keys) {
+      const v = fields[k];
+      params[k] = k === 'altNames' ? JSON.stringify(v) : (v ?? null);
+    }
+    stmt.run(params);
+    this.wrote();
   }
 
   /** Adds one value per 100 g; a duplicate (food, nutrient) goes to `onDuplicateValue`. */
@@ -221,11 +288,10 @@ export class SourceWriter {
     file: string,
     line: number,
   ): void {
-    // One prepared single-row statement: measured here faster than 50- or 500-row statements
-    // (bound arrays cost more than they save).
     try {
       this.insValue.run(foodId, defId, valuePer100g, derivationCode, sourceCode);
       this.values++;
+      this.wrote();
     } catch (err) {
       if ((err as { code?: string }).code !== 'SQLITE_CONSTRAINT_PRIMARYKEY') throw err;
       this.onDuplicateValue(file, line);
@@ -235,53 +301,180 @@ export class SourceWriter {
   addPortion(foodId: number, seq: number, amount: number, description: string, grams: number) {
     this.insPortion.run(foodId, seq, amount, description, grams);
     this.portions++;
-  }
-
-  /** A prepared statement inside the same transaction, for format-specific updates. */
-  prepare(sqlText: string): Database.Statement {
-    return this.sqlite.prepare(sqlText);
+    this.wrote();
   }
 
   /**
-   * Finishes: removes foods the new release no longer has, fills the per-100 g columns from the
-   * stored values, indexes names for search, records counts, and commits.
+   * Makes the staged release visible. Outside the database's write lock: the per-100 g columns
+   * are computed in staging, and the earlier release's ids are matched by code. Inside one
+   * short transaction: the earlier release's rows are replaced by set-based copies.
    */
-  commit(skipped: number): { foods: number; values: number; portions: number } {
-    const s = this.sqlite;
-    const id = this.sourceId;
-    if (this.replaced) {
-      const gone = [...this.previous.values()].filter((x) => !this.seenAgain.has(x));
-      const del = s.prepare('delete from food where id = ?');
-      for (const x of gone) del.run(x);
-    }
+  publish(skipped: number): PublishCounts {
     this.fillCoreColumns();
-    s.prepare(
+    this.s.exec('commit');
+    this.s.exec('create index s_food_main on s_food (main_id)');
+    this.staging.sqlite.close();
+    const m = this.db.sqlite;
+    m.prepare('attach database ? as stage').run(this.staging.path);
+    try {
+      m.pragma('stage.journal_mode = OFF');
+      const prev = this.previousSource();
+      const snapshot = prev === null ? null : this.matchPrevious(prev);
+      const t0 = performance.now();
+      m.exec('begin immediate');
+      try {
+        const counts = this.copyIn(prev, snapshot, skipped);
+        m.exec('commit');
+        return { ...counts, lockMs: performance.now() - t0 };
+      } catch (err) {
+        if (m.inTransaction) m.exec('rollback');
+        throw err;
+      }
+    } finally {
+      if (!m.inTransaction) m.exec('detach database stage');
+    }
+  }
+
+  /** Removes the staging file (after publish, or instead of it). */
+  discard(): void {
+    const m = this.db.sqlite;
+    if (m.open && !m.inTransaction) {
+      const attached = m.prepare('pragma database_list').all() as Array<{ name: string }>;
+      if (attached.some((d) => d.name === 'stage')) m.exec('detach database stage');
+    }
+    this.staging.remove();
+  }
+
+  private previousSource(): number | null {
+    const r = this.db.sqlite
+      .prepare('select id from food_source where format = ? and release = ?')
+      .pluck()
+      .get(this.meta.format, this.meta.release) as number | undefined;
+    return r ?? null;
+  }
+
+  /** Staged foods get the earlier release's id of the same code; the rest a rank (new_seq). */
+  private matchPrevious(prev: number): string {
+    const m = this.db.sqlite;
+    m.prepare(
+      `update stage.s_food set main_id = f.id from main.food as f
+       where f.source_id = ? and f.code = s_food.code`,
+    ).run(prev);
+    return this.foodsSnapshot(prev);
+  }
+
+  private foodsSnapshot(prev: number): string {
+    return JSON.stringify(
+      this.db.sqlite
+        .prepare('select count(*), coalesce(max(id), 0) from food where source_id = ?')
+        .raw()
+        .get(prev),
+    );
+  }
+
+  private copyIn(prev: number | null, snapshot: string | null, skipped: number) {
+    const m = this.db.sqlite;
+    const meta = this.meta;
+    let sourceId: number;
+    if (prev !== null) {
+      sourceId = prev;
+      // Foods of this release changed between matching and the lock: match again.
+      if (this.foodsSnapshot(prev) !== snapshot) this.matchPrevious(prev);
+      m.prepare(
+        'update food_source set name = ?, licence = ?, url = ?, imported_at = ? where id = ?',
+      ).run(meta.name, meta.licence, meta.url, meta.importedAt, prev);
+      const inSource = 'select id from food where source_id = ?';
+      m.prepare(`delete from food_fts where rowid in (${inSource})`).run(prev);
+      m.prepare(`delete from nutrient_value where food_id in (${inSource})`).run(prev);
+      m.prepare(`delete from portion where food_id in (${inSource})`).run(prev);
+      m.prepare(
+        `delete from food where source_id = ?
+         and not exists (select 1 from stage.s_food s where s.main_id = food.id)`,
+      ).run(prev);
+      m.prepare(
+        `update food set ${FOOD_COPY.map((c) => `${c} = s.${c}`).join(', ')}
+         from stage.s_food as s where s.main_id = food.id`,
+      ).run();
+    } else {
+      sourceId = Number(
+        m
+          .prepare(
+            `insert into food_source (format, name, release, licence, url, imported_at)
+             values (?, ?, ?, ?, ?, ?)`,
+          )
+          .run(meta.format, meta.name, meta.release, meta.licence, meta.url, meta.importedAt)
+          .lastInsertRowid,
+      );
+    }
+    // New foods take ids above every id the table has used (AUTOINCREMENT's rule).
+    const base = m
+      .prepare(
+        `select max(coalesce((select seq from sqlite_sequence where name = 'food'), 0),
+                    coalesce((select max(id) from food), 0))`,
+      )
+      .pluck()
+      .get() as number;
+    m.prepare(
+      `insert into food (id, source_id, code, ${FOOD_COPY.join(', ')})
+       select ? + new_seq, ?, code, ${FOOD_COPY.join(', ')}
+       from (select *, row_number() over (order by id) as new_seq from stage.s_food
+             where main_id is null)
+       order by new_seq`,
+    ).run(base, sourceId);
+    // Staged id -> database id, for the values, portions and the search index.
+    m.exec(`create temp table if not exists phl_food_map (sid integer primary key, id integer not null);
+            delete from phl_food_map;
+            create temp table if not exists phl_def_map (sid integer primary key, id integer not null);
+            delete from phl_def_map;`);
+    m.prepare(
+      `insert into phl_food_map (sid, id)
+       select id, coalesce(main_id, ? + row_number() over (partition by main_id is null order by id))
+       from stage.s_food order by id`,
+    ).run(base);
+    m.prepare(
+      `insert into nutrient_def (source_id, code, name, unit, tag, sort_order)
+       select ?, code, name, unit, tag, sort_order from stage.s_def where true
+       on conflict (source_id, code) do update set name = excluded.name, unit = excluded.unit,
+         tag = excluded.tag, sort_order = excluded.sort_order`,
+    ).run(sourceId);
+    m.prepare(
+      `insert into phl_def_map (sid, id) select s.id, d.id from stage.s_def s
+       join nutrient_def d on d.source_id = ? and d.code = s.code`,
+    ).run(sourceId);
+    const values = m
+      .prepare(
+        `insert into nutrient_value (food_id, nutrient_def_id, value_per_100g, derivation_code, source_code)
+         select f.id, d.id, v.value, v.derivation_code, v.source_code
+         from stage.s_value v join phl_food_map f on f.sid = v.food_id
+         join phl_def_map d on d.sid = v.def_id`,
+      )
+      .run().changes;
+    const portions = m
+      .prepare(
+        `insert into portion (food_id, seq, amount, description, grams)
+         select f.id, p.seq, p.amount, p.description, p.grams
+         from stage.s_portion p join phl_food_map f on f.sid = p.food_id`,
+      )
+      .run().changes;
+    m.prepare(
       `insert into food_fts (rowid, name, alt_names, kind)
-       select id, name, (select group_concat(value, ' | ') from json_each(food.alt_names)), kind
-       from food where source_id = ?`,
-    ).run(id);
-    // Every value and portion of this source was written by this import (the earlier ones were
-    // removed at the start), so the counters are exact.
-    const { foods, values, portions } = this;
-    s.prepare(
+       select f.id, s.name, (select group_concat(value, ' | ') from json_each(s.alt_names)), s.kind
+       from stage.s_food s join phl_food_map f on f.sid = s.id`,
+    ).run();
+    const foods = this.foods;
+    m.prepare(
       `update food_source set food_count = ?, nutrient_value_count = ?, portion_count = ?,
          skipped_count = ? where id = ?`,
-    ).run(foods, values, portions, skipped, id);
-    s.exec('commit');
-    this.open = false;
-    return { foods, values, portions };
+    ).run(foods, values, portions, skipped, sourceId);
+    m.exec('drop table phl_food_map; drop table phl_def_map;');
+    return { sourceId, foods, values, portions };
   }
 
-  rollback(): void {
-    if (!this.open) return;
-    this.open = false;
-    if (this.sqlite.inTransaction) this.sqlite.exec('rollback');
-  }
-
+  /** The per-100 g columns of every staged food, from its staged values (outside the lock). */
   private fillCoreColumns(): void {
-    const defs = this.sqlite
-      .prepare('select id, unit, tag from nutrient_def where source_id = ? and tag is not null')
-      .all(this.sourceId) as Array<{ id: number; unit: string; tag: string }>;
+    const defs = this.s
+      .prepare('select id, unit, tag from s_def where tag is not null')
+      .all() as Array<{ id: number; unit: string; tag: string }>;
     const sets: string[] = [];
     const params: number[] = [];
     for (const col of CORE_COLUMNS) {
@@ -291,16 +484,15 @@ export class SourceWriter {
           const factor = unitFactor(d.unit, col.unit);
           if (factor === null) continue;
           parts.push(
-            '(select value_per_100g * ? from nutrient_value where food_id = food.id and nutrient_def_id = ?)',
+            '(select value * ? from s_value where food_id = s_food.id and def_id = ?)',
           );
           params.push(factor, d.id);
         }
       }
-      sets.push(`${col.column} = ${parts.length ? `coalesce(${parts.join(', ')})` : 'null'}`);
-      if (parts.length === 1) sets[sets.length - 1] = `${col.column} = ${parts[0]}`;
+      if (parts.length === 0) sets.push(`${col.column} = null`);
+      else if (parts.length === 1) sets.push(`${col.column} = ${parts[0]}`);
+      else sets.push(`${col.column} = coalesce(${parts.join(', ')})`);
     }
-    this.sqlite
-      .prepare(`update food set ${sets.join(', ')} where source_id = ?`)
-      .run(...params, this.sourceId);
+    this.s.prepare(`update s_food set ${sets.join(', ')}`).run(...params);
   }
 }

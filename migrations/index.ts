@@ -6,6 +6,7 @@ import * as patientErasure from './202612012100_patient_erasure.js';
 import * as diaryAudits from './202612012110_diary_audits.js';
 import * as foodSearchPrefix from './202612012120_food_search_prefix.js';
 import * as foodNameStart from './202612012130_food_name_start_index.js';
+import * as foodReleaseLinks from './202612060400_food_release_links.js';
 
 /**
  * Every migration, by name (no extension, so the same database works from any runner).
@@ -19,4 +20,5 @@ export const migrations: Record<string, Migration> = {
   '202612012110_diary_audits': diaryAudits,
   '202612012120_food_search_prefix': foodSearchPrefix,
   '202612012130_food_name_start_index': foodNameStart,
+  '202612060400_food_release_links': foodReleaseLinks,
 };
