@@ -260,13 +260,18 @@ async function readAll(set: FileSet, ctx: ImportContext): Promise<void> {
     issues.notes.push(`${outside} food_nutrient.csv rows belong to left-out sample records`);
 
   outside = 0;
-  for await (const { row, file, at } of rowsOf('food_portion.csv', ['fdc_id', 'gram_weight'], true, {
-    portion_description: 'portion descriptions',
-    modifier: 'portion modifiers',
-    measure_unit_id: 'portion units',
-    amount: 'portion amounts (1 assumed)',
-    seq_num: 'portion order',
-  })) {
+  for await (const { row, file, at } of rowsOf(
+    'food_portion.csv',
+    ['fdc_id', 'gram_weight'],
+    true,
+    {
+      portion_description: 'portion descriptions',
+      modifier: 'portion modifiers',
+      measure_unit_id: 'portion units',
+      amount: 'portion amounts (1 assumed)',
+      seq_num: 'portion order',
+    },
+  )) {
     const foodId = Number(row.get('fdc_id'));
     if (!writer.hasFood(foodId)) {
       outside++;
@@ -329,7 +334,12 @@ async function readNdbNumbers(rowsOf: RowsOf, writer: SourceWriter, issues: Issu
       const ndb = row.get('NDB_number').trim();
       if (!ndb) continue;
       if (!/^\d+$/.test(ndb)) {
-        issues.report(file, row.line, ImportCodes.rowNumber, `${at}: NDB_number '${ndb}' is not a number: not kept`);
+        issues.report(
+          file,
+          row.line,
+          ImportCodes.rowNumber,
+          `${at}: NDB_number '${ndb}' is not a number: not kept`,
+        );
         continue;
       }
       // SR28 writes NDB numbers with 5 digits ('01001'); FDC drops the leading zeros.

@@ -169,7 +169,12 @@ function fileEntry(
       const read = { n: 0 };
       const counted = chain(raw, counter(onStored, read));
       const unpacked = chain(counted, createGunzip());
-      return Promise.resolve(chain(unpacked, budget.guard(name, () => read.n)));
+      return Promise.resolve(
+        chain(
+          unpacked,
+          budget.guard(name, () => read.n),
+        ),
+      );
     },
   };
 }
@@ -202,43 +207,52 @@ function zipMemberStream(
   onStored: ((n: number) => void) | undefined,
 ): Promise<Readable> {
   return new Promise<Readable>((res, rej) =>
-    zip.openReadStream(entry, (entry.compressionMethod === 8 ? { decompress: false } : {}) as never, (e, s) => {
-      if (e || !s) return rej(e ?? new Error('no stream'));
-      const read = { n: 0 };
-      let out: Readable = chain(s, counter(onStored, read));
-      if (entry.compressionMethod === 8) out = chain(out, createInflateRaw());
-      else if (entry.compressionMethod !== 0) {
-        return rej(
-          structural(
-            entry.fileName,
-            null,
-            ImportCodes.badZip,
-            `${entry.fileName}: compression method ${entry.compressionMethod} is not supported (use a plain zip, deflate or stored); ${NOT_CHANGED}`,
-          ),
-        );
-      }
-      out = chain(out, budget.guard(entry.fileName, () => read.n));
-      // The unpacked size must be the one the zip's directory states (a cut or altered member).
-      let unpacked = 0;
-      const check = new Transform({
-        transform(chunk: Buffer, _enc, done) {
-          unpacked += chunk.length;
-          done(null, chunk);
-        },
-        flush(done) {
-          if (unpacked === entry.uncompressedSize) return done();
-          done(
-            decompressFailure(
-              new Error(`zip member unpacked to ${unpacked} bytes, the zip says ${entry.uncompressedSize}`),
+    zip.openReadStream(
+      entry,
+      (entry.compressionMethod === 8 ? { decompress: false } : {}) as never,
+      (e, s) => {
+        if (e || !s) return rej(e ?? new Error('no stream'));
+        const read = { n: 0 };
+        let out: Readable = chain(s, counter(onStored, read));
+        if (entry.compressionMethod === 8) out = chain(out, createInflateRaw());
+        else if (entry.compressionMethod !== 0) {
+          return rej(
+            structural(
               entry.fileName,
               null,
+              ImportCodes.badZip,
+              `${entry.fileName}: compression method ${entry.compressionMethod} is not supported (use a plain zip, deflate or stored); ${NOT_CHANGED}`,
             ),
           );
-        },
-      });
-      // yauzl's stream only moves in flowing mode: pipe it so async iteration works.
-      res(chain(chain(out, check), new PassThrough({ highWaterMark: 1 << 20 })));
-    }),
+        }
+        out = chain(
+          out,
+          budget.guard(entry.fileName, () => read.n),
+        );
+        // The unpacked size must be the one the zip's directory states (a cut or altered member).
+        let unpacked = 0;
+        const check = new Transform({
+          transform(chunk: Buffer, _enc, done) {
+            unpacked += chunk.length;
+            done(null, chunk);
+          },
+          flush(done) {
+            if (unpacked === entry.uncompressedSize) return done();
+            done(
+              decompressFailure(
+                new Error(
+                  `zip member unpacked to ${unpacked} bytes, the zip says ${entry.uncompressedSize}`,
+                ),
+                entry.fileName,
+                null,
+              ),
+            );
+          },
+        });
+        // yauzl's stream only moves in flowing mode: pipe it so async iteration works.
+        res(chain(chain(out, check), new PassThrough({ highWaterMark: 1 << 20 })));
+      },
+    ),
   );
 }
 

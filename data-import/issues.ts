@@ -44,7 +44,11 @@ export function decompressFailure(
   const e = err as { code?: unknown; errno?: unknown; message?: unknown };
   const code = typeof e?.code === 'string' ? e.code : '';
   const msg = typeof e?.message === 'string' ? e.message : '';
-  const zlib = code.startsWith('Z_') || /unexpected end of file|incorrect header check|invalid (stored|block|distance|code)|too many length|crc|zip/i.test(msg);
+  const zlib =
+    code.startsWith('Z_') ||
+    /unexpected end of file|incorrect header check|invalid (stored|block|distance|code)|too many length|crc|zip/i.test(
+      msg,
+    );
   if (!zlib) return null;
   const why = /unexpected end/i.test(msg)
     ? 'it ends early (a cut download?)'

@@ -74,7 +74,6 @@ export function unitFactor(from: string, to: string): number | null {
   return null;
 }
 
-
 /** The s_food columns a format may set after adding a food (FDC's branded_food.csv). */
 export type FoodUpdate = Partial<
   Pick<
@@ -239,8 +238,7 @@ export class SourceWriter {
       ndbNumber: f.ndbNumber ?? null,
     };
     try {
-      const r =
-        id === undefined ? this.insFood.run(row) : this.insFoodWithId.run({ ...row, id });
+      const r = id === undefined ? this.insFood.run(row) : this.insFoodWithId.run({ ...row, id });
       this.foods++;
       this.wrote();
       return Number(r.lastInsertRowid);
@@ -483,9 +481,7 @@ export class SourceWriter {
         for (const d of defs.filter((x) => x.tag === tag)) {
           const factor = unitFactor(d.unit, col.unit);
           if (factor === null) continue;
-          parts.push(
-            '(select value * ? from s_value where food_id = s_food.id and def_id = ?)',
-          );
+          parts.push('(select value * ? from s_value where food_id = s_food.id and def_id = ?)');
           params.push(factor, d.id);
         }
       }
