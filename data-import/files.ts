@@ -23,7 +23,7 @@ export interface SetEntry {
 
 const MIB = 1024 * 1024;
 /** The ratio check starts after this many unpacked bytes (small files compress oddly). */
-const RATIO_CHECK_AFTER = 16 * MIB;
+const RATIO_CHECK_AFTER = 4 * MIB;
 
 /** Unpacked bytes of one import so far, checked against the limits. */
 class UnpackBudget {
@@ -161,7 +161,9 @@ function fileEntry(
     storedBytes: size,
     unpackedEstimate: gz ? gzUnpacked : size,
     open: (onStored) => {
-      const raw = createReadStream(path, { highWaterMark: 1 << 20 });
+      // Compressed input is read in 64 KiB steps so the bytes read (the progress) stay close
+      // to what has been unpacked and imported.
+      const raw = createReadStream(path, { highWaterMark: gz ? 1 << 16 : 1 << 20 });
       if (!gz) {
         if (onStored) raw.on('data', (c) => onStored(c.length));
         return Promise.resolve(raw);

@@ -59,7 +59,7 @@ export interface ImportProgress {
 export interface UnpackLimits {
   /** Largest total of unpacked bytes of one import. */
   maxUnpackedBytes: number;
-  /** Largest ratio of unpacked to compressed bytes (checked once 16 MiB are unpacked). */
+  /** Largest ratio of unpacked to compressed bytes (checked once 4 MiB are unpacked). */
   maxRatio: number;
 }
 

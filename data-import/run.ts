@@ -7,7 +7,7 @@ import { ImportCodes, IssueLog, NOT_CHANGED, StructuralError, structural } from 
 import { stagingDir } from './staging.js';
 import { SourceWriter, type SourceMeta } from './writer.js';
 
-/** Byte-based progress across every file of an import, reported at most every 256 KiB. */
+/** Byte-based progress across every file of an import, reported every 1% or 256 KiB. */
 export class Progress {
   private done = 0;
   private lastSent = -Infinity;
@@ -26,13 +26,16 @@ export class Progress {
   addTotal(bytes: number): void {
     this.total += bytes;
   }
+  private get step(): number {
+    return Math.max(1, Math.min(256 * 1024, this.total / 100));
+  }
   readonly bytes = (n: number): void => {
     this.done += n;
-    if (this.done - this.lastSent >= 256 * 1024) this.emit(false);
+    if (this.done - this.lastSent >= this.step) this.emit(false);
   };
   emit(force: boolean): void {
     if (!this.sink) return;
-    if (!force && this.done - this.lastSent < 256 * 1024) return;
+    if (!force && this.done - this.lastSent < this.step) return;
     this.lastSent = this.done;
     this.sink({
       file: this.file,
