@@ -50,7 +50,17 @@ describe('phosledger import <format> <path>', () => {
         'imported products-csv clinic: 1 foods, 2 values, 0 portions; 1 rows skipped\n',
       );
       expect(r.err).toContain('clinic.csv:3  PHL_IMPORT_ROW_NEGATIVE');
+      // Not a terminal: progress lines on stderr (the first report and each phase).
+      expect(r.err).toMatch(/^import products-csv: 0% of \d+ KiB read .*reading clinic\.csv$/m);
+      expect(r.err).toMatch(/^import products-csv: 100% .*publishing into the database/m);
       const json = await cli(['import', 'products-csv', bad, '--json', '--release', 'v2'], db);
+      const lines = json.err
+        .trim()
+        .split('\n')
+        .map((l) => JSON.parse(l));
+      expect(lines.at(-1)).toMatchObject({
+        progress: { format: 'products-csv', phase: 'publishing', fraction: 1, rows: 1 },
+      });
       expect(JSON.parse(json.out)).toMatchObject({
         ok: true,
         release: 'v2',
