@@ -17,7 +17,7 @@ const FOOD_TYPES: Record<string, 'generic' | 'branded'> = {
 };
 
 /** SR nutrient numbers (FDC `nutrient_nbr`) of the per-100 g columns (SR28 NUTR_DEF tagnames). */
-const TAG_BY_NBR: Record<string, string> = {
+export const TAG_BY_NBR: Record<string, string> = {
   '203': 'PROCNT',
   '208': 'ENERC_KCAL',
   '268': 'ENERC_KJ',
@@ -29,7 +29,7 @@ const TAG_BY_NBR: Record<string, string> = {
   '957': 'ENERC_KCAL_ATWATER_GENERAL',
   '958': 'ENERC_KCAL_ATWATER_SPECIFIC',
 };
-const UNITS: Record<string, string> = {
+export const UNITS: Record<string, string> = {
   G: 'g',
   MG: 'mg',
   UG: 'µg',
@@ -40,7 +40,7 @@ const UNITS: Record<string, string> = {
 
 const REQUIRED_FILES = ['food.csv', 'nutrient.csv', 'food_nutrient.csv'];
 
-function nbr(text: string): string {
+export function nbr(text: string): string {
   const t = text.trim();
   return /^\d+\.0+$/.test(t) ? t.replace(/\.0+$/, '') : t;
 }
