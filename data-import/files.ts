@@ -4,8 +4,14 @@ import { basename, join, relative } from 'node:path';
 import { PassThrough, Transform, type Readable } from 'node:stream';
 import { createGunzip, createInflateRaw } from 'node:zlib';
 import yauzl from 'yauzl';
-import { DEFAULT_UNPACK_LIMITS, type UnpackLimits } from './importer.js';
-import { ImportCodes, NOT_CHANGED, decompressFailure, structural } from './issues.js';
+import { DEFAULT_UNPACK_LIMITS, UNPACK_ENV, type UnpackLimits } from './importer.js';
+import {
+  ImportCodes,
+  NOT_CHANGED,
+  decompressFailure,
+  structural,
+  type StructuralError,
+} from './issues.js';
 
 /** One file inside a folder, a zip, or a single path. */
 export interface SetEntry {
@@ -30,37 +36,38 @@ class UnpackBudget {
   unpacked = 0;
   constructor(readonly limits: UnpackLimits) {}
 
+  /** Adds `n` unpacked bytes; the error when a limit is passed, else null. */
+  add(file: string, n: number, storedBytes: number): StructuralError | null {
+    this.unpacked += n;
+    const l = this.limits;
+    const stored = Math.max(1, storedBytes);
+    if (this.unpacked > l.maxUnpackedBytes) {
+      return structural(
+        file,
+        null,
+        ImportCodes.unpackLimit,
+        `${file}: unpacks to more than ${fmtBytes(l.maxUnpackedBytes)} (the import limit, ${UNPACK_ENV.maxUnpackedGiB} raises it); ${NOT_CHANGED}`,
+      );
+    }
+    if (this.unpacked > RATIO_CHECK_AFTER && this.unpacked / stored > l.maxRatio) {
+      return structural(
+        file,
+        null,
+        ImportCodes.unpackLimit,
+        `${file}: unpacks more than ${l.maxRatio} times its compressed size (${fmtBytes(this.unpacked)} from ${fmtBytes(stored)}; a food table compresses far less: is it a decompression bomb? ${UNPACK_ENV.maxRatio} raises the limit); ${NOT_CHANGED}`,
+      );
+    }
+    return null;
+  }
+
   /** A pass-through that counts unpacked bytes and stops the stream past a limit. */
   guard(file: string, storedSoFar: () => number): Transform {
-    const self = this;
+    const add = (n: number) => this.add(file, n, storedSoFar());
     return new Transform({
       transform(chunk: Buffer, _enc, done) {
-        self.unpacked += chunk.length;
-        const l = self.limits;
-        const stored = Math.max(1, storedSoFar());
-        if (self.unpacked > l.maxUnpackedBytes) {
-          done(
-            structural(
-              file,
-              null,
-              ImportCodes.unpackLimit,
-              `${file}: unpacks to more than ${fmtBytes(l.maxUnpackedBytes)} (the import limit; PHOSLEDGER_IMPORT_MAX_UNPACKED raises it); ${NOT_CHANGED}`,
-            ),
-          );
-          return;
-        }
-        if (self.unpacked > RATIO_CHECK_AFTER && self.unpacked / stored > l.maxRatio) {
-          done(
-            structural(
-              file,
-              null,
-              ImportCodes.unpackLimit,
-              `${file}: unpacks more than ${l.maxRatio} times its compressed size (${fmtBytes(self.unpacked)} from ${fmtBytes(stored)}; a food table compresses far less: is it a decompression bomb?); ${NOT_CHANGED}`,
-            ),
-          );
-          return;
-        }
-        done(null, chunk);
+        const err = add(chunk.length);
+        if (err) done(err);
+        else done(null, chunk);
       },
     });
   }

@@ -72,6 +72,31 @@ export const DEFAULT_UNPACK_LIMITS: UnpackLimits = {
   maxRatio: 200,
 };
 
+/** Environment variables that change the unpack limits (read once where imports start). */
+export const UNPACK_ENV = {
+  maxUnpackedGiB: 'PHOSLEDGER_IMPORT_MAX_UNPACKED_GIB',
+  maxRatio: 'PHOSLEDGER_IMPORT_MAX_RATIO',
+} as const;
+
+/** The unpack limits an environment sets; a value that is not a positive number is an error. */
+export function unpackLimitsFromEnv(env: Record<string, string | undefined>): UnpackLimits {
+  const read = (name: string, fallback: number) => {
+    const text = env[name];
+    if (text === undefined || text.trim() === '') return fallback;
+    const n = Number(text);
+    if (!Number.isFinite(n) || n <= 0)
+      throw new Error(`${name} must be a positive number (got '${text}')`);
+    return n;
+  };
+  return {
+    maxUnpackedBytes: Math.round(
+      read(UNPACK_ENV.maxUnpackedGiB, DEFAULT_UNPACK_LIMITS.maxUnpackedBytes / 1024 ** 3) *
+        1024 ** 3,
+    ),
+    maxRatio: read(UNPACK_ENV.maxRatio, DEFAULT_UNPACK_LIMITS.maxRatio),
+  };
+}
+
 export interface ImportOptions {
   /** Release label; re-importing the same format and release replaces it. Defaults per format. */
   release?: string | undefined;

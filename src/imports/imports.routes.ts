@@ -6,6 +6,7 @@ import multipart from '@fastify/multipart';
 import type { FastifyPluginAsync } from 'fastify';
 import type { ZodTypeProvider } from 'fastify-type-provider-zod';
 import { z } from 'zod';
+import { unpackLimitsFromEnv } from '../../data-import/importer.js';
 import { findImporter, importers } from '../../data-import/registry.js';
 import type { Clock } from '../clock.js';
 import type { Db } from '../db/database.js';
@@ -46,7 +47,9 @@ export const importRoutes: FastifyPluginAsync<{ db: Db; clock: Clock }> = async 
     limits: { fileSize: MAX_IMPORT_BYTES, files: 1, fields: 5, fieldSize: 200 },
   });
   // After an import, diary audits' name indexes and foods are rebuilt for the new tables.
-  const jobs = new ImportJobs(opts.db, opts.clock, (signal) =>
+  // Unpack limits from the environment, read once here (defaults in DEFAULT_UNPACK_LIMITS).
+  const limits = unpackLimitsFromEnv(process.env);
+  const jobs = new ImportJobs(opts.db, opts.clock, limits, (signal) =>
     new DiaryAuditService(opts.db, opts.clock, { longRunning: true }).prepare({ signal }),
   );
   app.addHook('onClose', async () => {

@@ -1,7 +1,11 @@
 import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import type { Importer } from '../../data-import/importer.js';
+import {
+  DEFAULT_UNPACK_LIMITS,
+  type Importer,
+  type UnpackLimits,
+} from '../../data-import/importer.js';
 import type { Clock } from '../clock.js';
 import { openDb, type Db } from '../db/database.js';
 import { AppError } from '../errors.js';
@@ -41,6 +45,7 @@ export class ImportJobs {
   constructor(
     private readonly db: Db,
     private readonly clock: Clock,
+    private readonly limits: UnpackLimits = DEFAULT_UNPACK_LIMITS,
     private readonly afterImport: (signal: AbortSignal) => Promise<unknown> = async () => {},
   ) {}
 
@@ -146,6 +151,7 @@ export class ImportJobs {
       const result = await importer.run(own ?? this.db, path, {
         release,
         clock: this.clock,
+        limits: this.limits,
         onProgress: (p) => {
           job.progress = p;
           job.fraction = progressFraction(p);

@@ -1,5 +1,9 @@
 import cliProgress from 'cli-progress';
-import type { ImportIssue, ImportProgress } from '../../../data-import/importer.js';
+import {
+  unpackLimitsFromEnv,
+  type ImportIssue,
+  type ImportProgress,
+} from '../../../data-import/importer.js';
 import { ProgressThrottle, progressLine } from '../../../data-import/progress-line.js';
 import { findImporter, importers } from '../../../data-import/registry.js';
 import { auditImport, cliActor } from '../../audit/actors.js';
@@ -70,9 +74,16 @@ export const importCommand: Command = {
       bar.setTotal(p.bytesTotal || 1);
       bar.update(p.bytesDone, payload);
     };
+    let limits;
+    try {
+      limits = unpackLimitsFromEnv(process.env);
+    } catch (err) {
+      throw new UsageError((err as Error).message);
+    }
     const result = await importer.run(db, path, {
       ...(typeof release === 'string' ? { release: release.trim() } : {}),
       onProgress,
+      limits,
     });
     if (started) bar?.stop();
     await auditImport(db, result, cliActor());
