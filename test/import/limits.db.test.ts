@@ -2,7 +2,11 @@ import { readFileSync, statSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { gzipSync } from 'node:zlib';
 import { describe, expect, it } from 'vitest';
-import type { ImportProgress } from '../../data-import/importer.js';
+import {
+  DEFAULT_UNPACK_LIMITS,
+  unpackLimitsFromEnv,
+  type ImportProgress,
+} from '../../data-import/importer.js';
 import { offCsv } from '../../data-import/off-csv.js';
 import { usdaSr28 } from '../../data-import/usda-sr28.js';
 import { fixedClock } from '../../src/clock.js';
@@ -96,6 +100,20 @@ describe('compressed input: progress, damage and limits (invented demo products)
       expect(r3).toMatchObject({ ok: false, fatal: { code: 'PHL_IMPORT_UNPACK_LIMIT' } });
       expect(snapshot(db)).toBe(before);
     }));
+
+  it('reads the limits from the environment (defaults 20 GiB and 200:1), refusing nonsense', () => {
+    expect(unpackLimitsFromEnv({})).toEqual(DEFAULT_UNPACK_LIMITS);
+    expect(DEFAULT_UNPACK_LIMITS).toEqual({ maxUnpackedBytes: 20 * 1024 ** 3, maxRatio: 200 });
+    expect(
+      unpackLimitsFromEnv({
+        PHOSLEDGER_IMPORT_MAX_UNPACKED_GIB: '1.5',
+        PHOSLEDGER_IMPORT_MAX_RATIO: '50',
+      }),
+    ).toEqual({ maxUnpackedBytes: 1.5 * 1024 ** 3, maxRatio: 50 });
+    expect(() => unpackLimitsFromEnv({ PHOSLEDGER_IMPORT_MAX_RATIO: 'lots' })).toThrow(
+      /PHOSLEDGER_IMPORT_MAX_RATIO must be a positive number/,
+    );
+  });
 
   it('checks free disk before starting and says how much is needed', () =>
     withDb(async (db) => {
