@@ -5,7 +5,7 @@ import { fmtBytes, type SetEntry } from './files.js';
 import type { ImportOptions, ImportProgress, ImportResult } from './importer.js';
 import { ImportCodes, IssueLog, NOT_CHANGED, StructuralError, structural } from './issues.js';
 import { stagingDir } from './staging.js';
-import { SourceWriter, type SourceMeta } from './writer.js';
+import { SourceWriter, removeDeadReservations, type SourceMeta } from './writer.js';
 
 /** Byte-based progress across every file of an import, reported every 1% or 256 KiB. */
 export class Progress {
@@ -101,12 +101,13 @@ export async function runImport(
   let writer: SourceWriter | undefined;
   try {
     const dir = stagingDir(db);
+    removeDeadReservations(db);
     await checkFreeDisk(dir, unpacked, options);
     writer = SourceWriter.open(db, { ...meta, importedAt: clock.now().toISOString() }, dir);
     await body({ writer, issues, progress });
     progress.phase = 'publishing';
     progress.emit(true);
-    const counts = writer.publish(issues.skippedRows);
+    const counts = await writer.publish(issues.skippedRows);
     checkpoint(db);
     return {
       ok: true,

@@ -23,7 +23,8 @@ export function stagingDir(db: Db): string {
   return db.file === ':memory:' ? tmpdir() : dirname(db.file);
 }
 
-function pidAlive(pid: number): boolean {
+/** True when a process with this id runs (a reservation or staging file of a live import). */
+export function pidAlive(pid: number): boolean {
   try {
     process.kill(pid, 0);
     return true;

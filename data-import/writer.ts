@@ -1,6 +1,7 @@
 import type Database from 'better-sqlite3';
 import type { Db } from '../src/db/database.js';
-import { createStaging, type StagingFile } from './staging.js';
+import { ImportCodes, structural } from './issues.js';
+import { createStaging, pidAlive, type StagingFile } from './staging.js';
 
 /** Provenance of one release of one table. */
 export interface SourceMeta {
@@ -126,6 +127,77 @@ const FOOD_COPY = [
   'ndb_number',
   ...CORE_COLUMNS.map((c) => c.column),
 ];
+
+/**
+ * New foods per publishing transaction: their values, portions and search rows (~12 values a
+ * food: ~25,000 rows, tens of ms here), so the server's writes wait at most that long.
+ * Common practice, no source.
+ */
+const PUBLISH_SLICE_FOODS = 2_000;
+
+/** Ids an import has taken for publishing (a row of import_reservation). */
+interface Reservation {
+  id: number;
+  /** New foods get foodBase + 1 ... foodBase + newFoods. */
+  foodBase: number;
+  newFoods: number;
+  sourceId: number;
+  prev: number | null;
+}
+
+/**
+ * Removes what an import wrote before its last publishing step (rows under its reserved ids,
+ * which no food row has) and the reservation itself. Used when the publish fails, and at the
+ * start of the next import for an import that died.
+ */
+export function removeReservation(db: Db, id: number): void {
+  const m = db.sqlite;
+  const r = m.prepare('select * from import_reservation where id = ?').get(id) as
+    | {
+        food_id_from: number;
+        food_id_to: number;
+        source_id: number;
+        new_source: number;
+        def_id_floor: number;
+      }
+    | undefined;
+  if (!r) return;
+  m.exec('begin immediate');
+  try {
+    const orphan = 'between ? and ? and not exists (select 1 from food where food.id = ';
+    m.prepare(`delete from nutrient_value where food_id ${orphan}nutrient_value.food_id)`).run(
+      r.food_id_from,
+      r.food_id_to,
+    );
+    m.prepare(`delete from portion where food_id ${orphan}portion.food_id)`).run(
+      r.food_id_from,
+      r.food_id_to,
+    );
+    m.prepare(`delete from food_fts where rowid ${orphan}food_fts.rowid)`).run(
+      r.food_id_from,
+      r.food_id_to,
+    );
+    // Nutrients this import added and no value uses.
+    m.prepare(
+      `delete from nutrient_def where source_id = ? and id > ?
+       and not exists (select 1 from nutrient_value v where v.nutrient_def_id = nutrient_def.id)`,
+    ).run(r.source_id, r.def_id_floor);
+    m.prepare('delete from import_reservation where id = ?').run(id);
+    m.exec('commit');
+  } catch (err) {
+    if (m.inTransaction) m.exec('rollback');
+    throw err;
+  }
+}
+
+/** Removes the leftovers of imports that died while publishing (see `removeReservation`). */
+export function removeDeadReservations(db: Db): void {
+  const rows = db.sqlite.prepare('select id, pid from import_reservation').all() as Array<{
+    id: number;
+    pid: number;
+  }>;
+  for (const r of rows) if (!pidAlive(r.pid)) removeReservation(db, r.id);
+}
 
 /** Staging writes between commits of the staging file (bounds its page cache; no source). */
 const STAGE_BATCH = 100_000;
@@ -304,32 +376,45 @@ export class SourceWriter {
 
   /**
    * Makes the staged release visible. Outside the database's write lock: the per-100 g columns
-   * are computed in staging, and the earlier release's ids are matched by code. Inside one
-   * short transaction: the earlier release's rows are replaced by set-based copies.
+   * are computed in staging and the earlier release's ids matched by code. Then, in short
+   * transactions, the values, portions and search rows of the new foods are written under food
+   * ids reserved for them (no food row has those ids yet, so no query sees them; this
+   * connection skips the foreign-key check for them). Last, one transaction adds the food rows
+   * (the release becomes visible) and replaces the earlier release's rows.
    */
-  publish(skipped: number): PublishCounts {
+  async publish(skipped: number, onStep?: () => Promise<void>): Promise<PublishCounts> {
     this.fillCoreColumns();
     this.s.exec('commit');
     this.s.exec('create index s_food_main on s_food (main_id)');
     this.staging.sqlite.close();
     const m = this.db.sqlite;
     m.prepare('attach database ? as stage').run(this.staging.path);
+    let plan: Reservation | null = null;
     try {
       m.pragma('stage.journal_mode = OFF');
       const prev = this.previousSource();
       const snapshot = prev === null ? null : this.matchPrevious(prev);
+      plan = this.reserve(prev);
+      this.buildMaps(plan);
+      await this.writeNewFoodRows(plan, onStep);
       const t0 = performance.now();
       m.exec('begin immediate');
       try {
-        const counts = this.copyIn(prev, snapshot, skipped);
+        const counts = this.finish(plan, snapshot, skipped);
         m.exec('commit');
         return { ...counts, lockMs: performance.now() - t0 };
       } catch (err) {
         if (m.inTransaction) m.exec('rollback');
         throw err;
       }
+    } catch (err) {
+      if (plan) removeReservation(this.db, plan.id);
+      throw err;
     } finally {
-      if (!m.inTransaction) m.exec('detach database stage');
+      if (!m.inTransaction) {
+        m.exec('drop table if exists temp.phl_food_map; drop table if exists temp.phl_def_map;');
+        m.exec('detach database stage');
+      }
     }
   }
 
@@ -351,7 +436,7 @@ export class SourceWriter {
     return r ?? null;
   }
 
-  /** Staged foods get the earlier release's id of the same code; the rest a rank (new_seq). */
+  /** Staged foods get the earlier release's id of the same code (main_id). */
   private matchPrevious(prev: number): string {
     const m = this.db.sqlite;
     m.prepare(
@@ -370,14 +455,155 @@ export class SourceWriter {
     );
   }
 
-  private copyIn(prev: number | null, snapshot: string | null, skipped: number) {
+  /**
+   * Takes food ids for the new foods (and a source id for a new release) in one short
+   * transaction, by moving AUTOINCREMENT's counter past them: no other writer can take them.
+   */
+  private reserve(prev: number | null): Reservation {
+    const m = this.db.sqlite;
+    const newFoods = m
+      .prepare('select count(*) from stage.s_food where main_id is null')
+      .pluck()
+      .get() as number;
+    const bump = (table: string, by: number): number => {
+      const base = m
+        .prepare(
+          `select max(coalesce((select seq from sqlite_sequence where name = ?), 0),
+                      coalesce((select max(id) from ${table}), 0))`,
+        )
+        .pluck()
+        .get(table) as number;
+      m.prepare('delete from sqlite_sequence where name = ?').run(table);
+      m.prepare('insert into sqlite_sequence (name, seq) values (?, ?)').run(table, base + by);
+      return base;
+    };
+    // A new release's nutrients name its reserved source id, whose row comes last.
+    const fk = m.pragma('foreign_keys', { simple: true }) as number;
+    m.pragma('foreign_keys = OFF');
+    m.exec('begin immediate');
+    try {
+      const foodBase = bump('food', newFoods);
+      const sourceId = prev ?? bump('food_source', 1) + 1;
+      const defFloor = m
+        .prepare('select coalesce(max(id), 0) from nutrient_def')
+        .pluck()
+        .get() as number;
+      const id = Number(
+        m
+          .prepare(
+            `insert into import_reservation
+               (food_id_from, food_id_to, source_id, new_source, def_id_floor, pid, created_at)
+             values (?, ?, ?, ?, ?, ?, ?)`,
+          )
+          .run(
+            foodBase + 1,
+            foodBase + newFoods,
+            sourceId,
+            prev === null ? 1 : 0,
+            defFloor,
+            process.pid,
+            this.meta.importedAt,
+          ).lastInsertRowid,
+      );
+      // New nutrients: added now (a new release's under its reserved source id: not visible).
+      m.prepare(
+        `insert into nutrient_def (source_id, code, name, unit, tag, sort_order)
+         select ?, code, name, unit, tag, sort_order from stage.s_def where true
+         on conflict (source_id, code) do nothing`,
+      ).run(sourceId);
+      m.exec('commit');
+      return { id, foodBase, newFoods, sourceId, prev };
+    } catch (err) {
+      if (m.inTransaction) m.exec('rollback');
+      throw err;
+    } finally {
+      m.pragma(`foreign_keys = ${fk ? 'ON' : 'OFF'}`);
+    }
+  }
+
+  /** Staged id -> database id for foods and nutrients (temporary tables of this connection). */
+  private buildMaps(plan: Reservation): void {
+    const m = this.db.sqlite;
+    m.exec(`drop table if exists temp.phl_food_map; drop table if exists temp.phl_def_map;
+      create temp table phl_food_map (sid integer primary key, id integer not null, new integer not null);
+      create temp table phl_def_map (sid integer primary key, id integer not null);`);
+    m.prepare(
+      `insert into phl_food_map (sid, id, new)
+       select id, coalesce(main_id, ? + row_number() over (partition by main_id is null order by id)),
+              main_id is null
+       from stage.s_food order by id`,
+    ).run(plan.foodBase);
+    m.prepare(
+      `insert into phl_def_map (sid, id) select s.id, d.id from stage.s_def s
+       join nutrient_def d on d.source_id = ? and d.code = s.code`,
+    ).run(plan.sourceId);
+  }
+
+  /** The new foods' values, portions and search rows, a slice of foods per transaction. */
+  private async writeNewFoodRows(plan: Reservation, onStep?: () => Promise<void>) {
+    const m = this.db.sqlite;
+    const fk = m.pragma('foreign_keys', { simple: true }) as number;
+    const range = m
+      .prepare('select min(sid), max(sid) from phl_food_map where new = 1')
+      .raw()
+      .get() as [number | null, number | null];
+    if (range[0] === null || range[1] === null) return;
+    const steps = [
+      this.valuesSql('and f.new = 1 and f.sid between ? and ?'),
+      this.portionsSql('and f.new = 1 and f.sid between ? and ?'),
+      this.ftsSql('and f.new = 1 and f.sid between ? and ?'),
+    ].map((q) => m.prepare(q));
+    for (let lo = range[0]; lo <= range[1]; lo += PUBLISH_SLICE_FOODS) {
+      const hi = lo + PUBLISH_SLICE_FOODS - 1;
+      // The food rows come in the last transaction: until then these rows point at ids no food
+      // has, which the foreign-key check would refuse (switched off for this step only).
+      m.pragma('foreign_keys = OFF');
+      m.exec('begin immediate');
+      try {
+        for (const st of steps) st.run(lo, hi);
+        m.exec('commit');
+      } catch (err) {
+        if (m.inTransaction) m.exec('rollback');
+        throw err;
+      } finally {
+        m.pragma(`foreign_keys = ${fk ? 'ON' : 'OFF'}`);
+      }
+      // Between slices the lock is free: the server's writes go in here.
+      await (onStep ? onStep() : new Promise<void>((r) => setImmediate(r)));
+    }
+  }
+
+  private valuesSql(where: string): string {
+    return `insert into nutrient_value (food_id, nutrient_def_id, value_per_100g, derivation_code, source_code)
+      select f.id, d.id, v.value, v.derivation_code, v.source_code
+      from phl_food_map f join stage.s_value v on v.food_id = f.sid
+      join phl_def_map d on d.sid = v.def_id where true ${where}`;
+  }
+  private portionsSql(where: string): string {
+    return `insert into portion (food_id, seq, amount, description, grams)
+      select f.id, p.seq, p.amount, p.description, p.grams
+      from phl_food_map f join stage.s_portion p on p.food_id = f.sid where true ${where}`;
+  }
+  private ftsSql(where: string): string {
+    return `insert into food_fts (rowid, name, alt_names, kind)
+      select f.id, s.name, (select group_concat(value, ' | ') from json_each(s.alt_names)), s.kind
+      from phl_food_map f join stage.s_food s on s.id = f.sid where true ${where}`;
+  }
+
+  /** The last transaction: food rows in, the earlier release's rows replaced, counts. */
+  private finish(plan: Reservation, snapshot: string | null, skipped: number) {
     const m = this.db.sqlite;
     const meta = this.meta;
-    let sourceId: number;
+    const prev = plan.prev;
     if (prev !== null) {
-      sourceId = prev;
-      // Foods of this release changed between matching and the lock: match again.
-      if (this.foodsSnapshot(prev) !== snapshot) this.matchPrevious(prev);
+      if (this.foodsSnapshot(prev) !== snapshot) {
+        throw structural(
+          '(database)',
+          null,
+          ImportCodes.busy,
+          `another import of ${this.meta.format} ${this.meta.release} finished while this one was publishing: run this one again; the database was not changed by it`,
+        );
+      }
       m.prepare(
         'update food_source set name = ?, licence = ?, url = ?, imported_at = ? where id = ?',
       ).run(meta.name, meta.licence, meta.url, meta.importedAt, prev);
@@ -393,79 +619,50 @@ export class SourceWriter {
         `update food set ${FOOD_COPY.map((c) => `${c} = s.${c}`).join(', ')}
          from stage.s_food as s where s.main_id = food.id`,
       ).run();
+      for (const q of [
+        this.valuesSql('and f.new = 0'),
+        this.portionsSql('and f.new = 0'),
+        this.ftsSql('and f.new = 0'),
+      ]) {
+        m.prepare(q).run();
+      }
     } else {
-      sourceId = Number(
-        m
-          .prepare(
-            `insert into food_source (format, name, release, licence, url, imported_at)
-             values (?, ?, ?, ?, ?, ?)`,
-          )
-          .run(meta.format, meta.name, meta.release, meta.licence, meta.url, meta.importedAt)
-          .lastInsertRowid,
+      m.prepare(
+        `insert into food_source (id, format, name, release, licence, url, imported_at)
+         values (?, ?, ?, ?, ?, ?, ?)`,
+      ).run(
+        plan.sourceId,
+        meta.format,
+        meta.name,
+        meta.release,
+        meta.licence,
+        meta.url,
+        meta.importedAt,
       );
     }
-    // New foods take ids above every id the table has used (AUTOINCREMENT's rule).
-    const base = m
-      .prepare(
-        `select max(coalesce((select seq from sqlite_sequence where name = 'food'), 0),
-                    coalesce((select max(id) from food), 0))`,
-      )
-      .pluck()
-      .get() as number;
+    m.prepare(
+      `update nutrient_def set name = s.name, unit = s.unit, tag = s.tag, sort_order = s.sort_order
+       from stage.s_def as s where nutrient_def.source_id = ? and nutrient_def.code = s.code`,
+    ).run(plan.sourceId);
     m.prepare(
       `insert into food (id, source_id, code, ${FOOD_COPY.join(', ')})
-       select ? + new_seq, ?, code, ${FOOD_COPY.join(', ')}
-       from (select *, row_number() over (order by id) as new_seq from stage.s_food
-             where main_id is null)
-       order by new_seq`,
-    ).run(base, sourceId);
-    // Staged id -> database id, for the values, portions and the search index.
-    m.exec(`create temp table if not exists phl_food_map (sid integer primary key, id integer not null);
-            delete from phl_food_map;
-            create temp table if not exists phl_def_map (sid integer primary key, id integer not null);
-            delete from phl_def_map;`);
-    m.prepare(
-      `insert into phl_food_map (sid, id)
-       select id, coalesce(main_id, ? + row_number() over (partition by main_id is null order by id))
-       from stage.s_food order by id`,
-    ).run(base);
-    m.prepare(
-      `insert into nutrient_def (source_id, code, name, unit, tag, sort_order)
-       select ?, code, name, unit, tag, sort_order from stage.s_def where true
-       on conflict (source_id, code) do update set name = excluded.name, unit = excluded.unit,
-         tag = excluded.tag, sort_order = excluded.sort_order`,
-    ).run(sourceId);
-    m.prepare(
-      `insert into phl_def_map (sid, id) select s.id, d.id from stage.s_def s
-       join nutrient_def d on d.source_id = ? and d.code = s.code`,
-    ).run(sourceId);
-    const values = m
-      .prepare(
-        `insert into nutrient_value (food_id, nutrient_def_id, value_per_100g, derivation_code, source_code)
-         select f.id, d.id, v.value, v.derivation_code, v.source_code
-         from stage.s_value v join phl_food_map f on f.sid = v.food_id
-         join phl_def_map d on d.sid = v.def_id`,
-      )
-      .run().changes;
-    const portions = m
-      .prepare(
-        `insert into portion (food_id, seq, amount, description, grams)
-         select f.id, p.seq, p.amount, p.description, p.grams
-         from stage.s_portion p join phl_food_map f on f.sid = p.food_id`,
-      )
-      .run().changes;
-    m.prepare(
-      `insert into food_fts (rowid, name, alt_names, kind)
-       select f.id, s.name, (select group_concat(value, ' | ') from json_each(s.alt_names)), s.kind
-       from stage.s_food s join phl_food_map f on f.sid = s.id`,
-    ).run();
+       select f.id, ?, s.code, ${FOOD_COPY.map((c) => `s.${c}`).join(', ')}
+       from phl_food_map f join stage.s_food s on s.id = f.sid where f.new = 1 order by f.id`,
+    ).run(plan.sourceId);
+    const count = (q: string) => m.prepare(q).pluck().get(plan.sourceId) as number;
+    const values = count(
+      'select count(*) from nutrient_value where food_id in (select id from food where source_id = ?)',
+    );
+    const portions = count(
+      'select count(*) from portion where food_id in (select id from food where source_id = ?)',
+    );
     const foods = this.foods;
     m.prepare(
       `update food_source set food_count = ?, nutrient_value_count = ?, portion_count = ?,
          skipped_count = ? where id = ?`,
-    ).run(foods, values, portions, skipped, sourceId);
-    m.exec('drop table phl_food_map; drop table phl_def_map;');
-    return { sourceId, foods, values, portions };
+    ).run(foods, values, portions, skipped, plan.sourceId);
+    m.prepare('delete from import_reservation where id = ?').run(plan.id);
+    return { sourceId: plan.sourceId, foods, values, portions };
   }
 
   /** The per-100 g columns of every staged food, from its staged values (outside the lock). */
