@@ -168,9 +168,10 @@ function fileEntry(
     storedBytes: size,
     unpackedEstimate: gz ? gzUnpacked : size,
     open: (onStored) => {
-      // Compressed input is read in 64 KiB steps so the bytes read (the progress) stay close
-      // to what has been unpacked and imported.
-      const raw = createReadStream(path, { highWaterMark: gz ? 1 << 16 : 1 << 20 });
+      // Read in 64 KiB steps: the bytes read (the progress) stay close to what has been
+      // imported, and each step's synchronous work stays short (a server importing an upload
+      // answers requests between steps).
+      const raw = createReadStream(path, { highWaterMark: 1 << 16 });
       if (!gz) {
         if (onStored) raw.on('data', (c) => onStored(c.length));
         return Promise.resolve(raw);
