@@ -231,6 +231,8 @@ export class SourceWriter {
   private readonly upsertDef: Database.Statement;
   private readonly updates = new Map<string, Database.Statement>();
   private pending = 0;
+  /** Rows copied into the database by publish(). */
+  private readonly published = { values: 0, portions: 0 };
   /** Called for a value whose food already has that nutrient in this import (row skipped). */
   onDuplicateValue: (file: string, line: number) => void = () => undefined;
   values = 0;
@@ -560,7 +562,9 @@ export class SourceWriter {
       m.pragma('foreign_keys = OFF');
       m.exec('begin immediate');
       try {
-        for (const st of steps) st.run(lo, hi);
+        const [v, p] = steps.map((st) => st.run(lo, hi).changes);
+        this.published.values += v ?? 0;
+        this.published.portions += p ?? 0;
         m.exec('commit');
       } catch (err) {
         if (m.inTransaction) m.exec('rollback');
@@ -619,13 +623,9 @@ export class SourceWriter {
         `update food set ${FOOD_COPY.map((c) => `${c} = s.${c}`).join(', ')}
          from stage.s_food as s where s.main_id = food.id`,
       ).run();
-      for (const q of [
-        this.valuesSql('and f.new = 0'),
-        this.portionsSql('and f.new = 0'),
-        this.ftsSql('and f.new = 0'),
-      ]) {
-        m.prepare(q).run();
-      }
+      this.published.values += m.prepare(this.valuesSql('and f.new = 0')).run().changes;
+      this.published.portions += m.prepare(this.portionsSql('and f.new = 0')).run().changes;
+      m.prepare(this.ftsSql('and f.new = 0')).run();
     } else {
       m.prepare(
         `insert into food_source (id, format, name, release, licence, url, imported_at)
@@ -649,13 +649,9 @@ export class SourceWriter {
        select f.id, ?, s.code, ${FOOD_COPY.map((c) => `s.${c}`).join(', ')}
        from phl_food_map f join stage.s_food s on s.id = f.sid where f.new = 1 order by f.id`,
     ).run(plan.sourceId);
-    const count = (q: string) => m.prepare(q).pluck().get(plan.sourceId) as number;
-    const values = count(
-      'select count(*) from nutrient_value where food_id in (select id from food where source_id = ?)',
-    );
-    const portions = count(
-      'select count(*) from portion where food_id in (select id from food where source_id = ?)',
-    );
+    // Every value and portion of this source was written by this import (the earlier ones were
+    // removed), so the counters are exact.
+    const { values, portions } = this.published;
     const foods = this.foods;
     m.prepare(
       `update food_source set food_count = ?, nutrient_value_count = ?, portion_count = ?,
