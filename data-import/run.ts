@@ -141,11 +141,16 @@ export async function runImport(
   }
 }
 
-/** Moves the published pages into the database file so the WAL does not stay as large. */
+/**
+ * Moves the published pages into the database file without blocking other writers (PASSIVE:
+ * a TRUNCATE checkpoint of a large WAL held the write lock for seconds), and lets the WAL file
+ * shrink back to 64 MiB when it is next reset (no source; common practice).
+ */
 function checkpoint(db: Db): void {
   if (db.file === ':memory:') return;
   try {
-    db.sqlite.pragma('wal_checkpoint(TRUNCATE)');
+    db.sqlite.pragma('journal_size_limit = 67108864');
+    db.sqlite.pragma('wal_checkpoint(PASSIVE)');
   } catch {
     // A busy reader keeps part of the WAL until the next checkpoint: not an import failure.
   }

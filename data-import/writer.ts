@@ -385,7 +385,7 @@ export class SourceWriter {
    * (the release becomes visible) and replaces the earlier release's rows.
    */
   async publish(skipped: number, onStep?: () => Promise<void>): Promise<PublishCounts> {
-    this.fillCoreColumns();
+    await this.fillCoreColumns(onStep);
     this.s.exec('commit');
     this.s.exec('create index s_food_main on s_food (main_id)');
     this.staging.sqlite.close();
@@ -662,7 +662,7 @@ export class SourceWriter {
   }
 
   /** The per-100 g columns of every staged food, from its staged values (outside the lock). */
-  private fillCoreColumns(): void {
+  private async fillCoreColumns(onStep?: () => Promise<void>): Promise<void> {
     const defs = this.s
       .prepare('select id, unit, tag from s_def where tag is not null')
       .all() as Array<{ id: number; unit: string; tag: string }>;
@@ -682,6 +682,17 @@ export class SourceWriter {
       else if (parts.length === 1) sets.push(`${col.column} = ${parts[0]}`);
       else sets.push(`${col.column} = coalesce(${parts.join(', ')})`);
     }
-    this.s.prepare(`update s_food set ${sets.join(', ')}`).run(...params);
+    const update = this.s.prepare(`update s_food set ${sets.join(', ')} where id between ? and ?`);
+    const [lo, hi] = this.s.prepare('select min(id), max(id) from s_food').raw().get() as [
+      number | null,
+      number | null,
+    ];
+    if (lo === null || hi === null) return;
+    // In slices, yielding between them: a server importing an upload keeps answering.
+    const slice = Math.max(PUBLISH_SLICE_FOODS * 10, Math.ceil((hi - lo + 1) / 1000));
+    for (let a = lo; a <= hi; a += slice) {
+      update.run(...params, a, a + slice - 1);
+      await (onStep ? onStep() : new Promise<void>((r) => setImmediate(r)));
+    }
   }
 }
