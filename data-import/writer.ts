@@ -134,6 +134,8 @@ const FOOD_COPY = [
  * Common practice, no source.
  */
 const PUBLISH_SLICE_FOODS = 2_000;
+/** Pause between publishing slices, in ms (see writeNewFoodRows). */
+const SLICE_GAP_MS = 50;
 
 /** Ids an import has taken for publishing (a row of import_reservation). */
 interface Reservation {
@@ -572,8 +574,10 @@ export class SourceWriter {
       } finally {
         m.pragma(`foreign_keys = ${fk ? 'ON' : 'OFF'}`);
       }
-      // Between slices the lock is free: the server's writes go in here.
-      await (onStep ? onStep() : new Promise<void>((r) => setImmediate(r)));
+      // Between slices the lock stays free for a while: a writer waiting in SQLite's default
+      // busy handler retries every 1-50 ms in its first ~300 ms (sqliteDefaultBusyCallback), so
+      // a gap of 50 ms lets it in instead of starving it behind back-to-back slices.
+      await (onStep ? onStep() : new Promise<void>((r) => setTimeout(r, SLICE_GAP_MS)));
     }
   }
 
