@@ -1,6 +1,6 @@
 import { isAscii, isUtf8 } from 'node:buffer';
 import type { Readable } from 'node:stream';
-import { ImportCodes, structural } from './issues.js';
+import { ImportCodes, decompressFailure, structural } from './issues.js';
 
 export type TextEncoding = 'utf-8' | 'latin1';
 
@@ -55,6 +55,25 @@ function checkStart(buf: Buffer, file: string, expected: TextEncoding): void {
   }
 }
 
+/** The stream's chunks; a decompressor failure becomes the importer's own error with the line. */
+async function* unpacked(
+  stream: Readable,
+  file: string,
+  line: () => number,
+): AsyncGenerator<Buffer> {
+  const it = (stream as AsyncIterable<Buffer>)[Symbol.asyncIterator]();
+  for (;;) {
+    let r: IteratorResult<Buffer>;
+    try {
+      r = await it.next();
+    } catch (err) {
+      throw decompressFailure(err, file, line()) ?? err;
+    }
+    if (r.done) return;
+    yield r.value;
+  }
+}
+
 /**
  * Decodes a byte stream to text chunks. UTF-8 is strict (a Latin-1 or Windows-1252 file stops
  * with the line of the first bad byte); Latin-1 refuses files that are really UTF-8.
@@ -70,7 +89,7 @@ export async function* decodeText(
   let first = true;
   let linesBefore = 0;
   let pending: Buffer | null = null;
-  for await (const raw of stream as AsyncIterable<Buffer>) {
+  for await (const raw of unpacked(stream, file, () => linesBefore + 1)) {
     onBytes?.(raw.length);
     const chunk: Buffer = pending ? Buffer.concat([pending, raw]) : raw;
     pending = null;

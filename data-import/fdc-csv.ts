@@ -4,8 +4,9 @@ import { scanIngredients } from './additive-scan.js';
 import { readCsv, type CsvRow } from './csv.js';
 import { openFileSet, requireEntry, type FileSet } from './files.js';
 import type { ImportOptions, ImportResult, Importer } from './importer.js';
-import { ImportCodes, parseNumberField, structural } from './issues.js';
+import { ImportCodes, parseNumberField, structural, type IssueLog } from './issues.js';
 import { failedBeforeStart, runImport, type ImportContext } from './run.js';
+import type { SourceWriter } from './writer.js';
 
 /** FDC data types that are foods a person eats; the others are laboratory sample records. */
 const FOOD_TYPES: Record<string, 'generic' | 'branded'> = {
@@ -16,7 +17,7 @@ const FOOD_TYPES: Record<string, 'generic' | 'branded'> = {
 };
 
 /** SR nutrient numbers (FDC `nutrient_nbr`) of the per-100 g columns (SR28 NUTR_DEF tagnames). */
-const TAG_BY_NBR: Record<string, string> = {
+export const TAG_BY_NBR: Record<string, string> = {
   '203': 'PROCNT',
   '208': 'ENERC_KCAL',
   '268': 'ENERC_KJ',
@@ -28,7 +29,7 @@ const TAG_BY_NBR: Record<string, string> = {
   '957': 'ENERC_KCAL_ATWATER_GENERAL',
   '958': 'ENERC_KCAL_ATWATER_SPECIFIC',
 };
-const UNITS: Record<string, string> = {
+export const UNITS: Record<string, string> = {
   G: 'g',
   MG: 'mg',
   UG: 'µg',
@@ -39,27 +40,36 @@ const UNITS: Record<string, string> = {
 
 const REQUIRED_FILES = ['food.csv', 'nutrient.csv', 'food_nutrient.csv'];
 
-function nbr(text: string): string {
+export function nbr(text: string): string {
   const t = text.trim();
   return /^\d+\.0+$/.test(t) ? t.replace(/\.0+$/, '') : t;
 }
 
 async function readAll(set: FileSet, ctx: ImportContext): Promise<void> {
   const { writer, issues, progress } = ctx;
-  const rowsOf = async function* (baseName: string, required: string[], optional = false) {
+  const rowsOf = async function* (
+    baseName: string,
+    required: string[],
+    optional = false,
+    wanted: Record<string, string> = {},
+  ) {
     const e = optional ? set.find(baseName) : requireEntry(set, baseName);
     if (!e) return;
     progress.setFile(e.name);
-    const stream = await e.open();
+    const stream = await e.open(progress.bytes);
+    let checked = false;
     for await (const batch of readCsv(stream, {
       file: e.name,
       delimiter: ',',
       quoted: true,
       required,
       issues,
-      onBytes: progress.bytes,
       requireRows: !optional,
     })) {
+      if (!checked && batch[0]) {
+        checked = true;
+        reportAbsentColumns(e.name, batch[0].header, wanted, issues);
+      }
       for (const row of batch) yield { row, file: e.name, at: `${e.name} line ${row.line}` };
     }
   };
@@ -122,7 +132,8 @@ async function readAll(set: FileSet, ctx: ImportContext): Promise<void> {
     );
   }
 
-  const foods = new Map<number, number>();
+  // Each food is staged under its fdc_id, so later files find it in SQL, not in a map.
+  let foodCount = 0;
   const leftOut = new Map<string, number>();
   for await (const { row, file, at } of rowsOf('food.csv', [
     'fdc_id',
@@ -156,21 +167,23 @@ async function readAll(set: FileSet, ctx: ImportContext): Promise<void> {
       continue;
     }
     const cat = row.get('food_category_id').trim();
-    const id = writer.addFood({
-      code: String(fdcId),
-      name,
-      altNames: [],
-      group: categories.get(cat) ?? (cat && !/^\d+$/.test(cat) ? cat : null),
-      kind,
-    });
+    const id = writer.addFood(
+      {
+        code: String(fdcId),
+        name,
+        altNames: [],
+        group: categories.get(cat) ?? (cat && !/^\d+$/.test(cat) ? cat : null),
+        kind,
+      },
+      fdcId,
+    );
     if (id === null) {
       issues.skip(file, row.line, ImportCodes.rowDuplicate, `${at}: fdc_id ${fdcId} again`);
       continue;
     }
-    foods.set(fdcId, id);
-    progress.rows = foods.size;
+    progress.rows = ++foodCount;
   }
-  if (foods.size === 0) {
+  if (foodCount === 0) {
     throw structural(
       set.label,
       null,
@@ -184,55 +197,8 @@ async function readAll(set: FileSet, ctx: ImportContext): Promise<void> {
     );
   }
 
-  const branded = writer.prepare(
-    `update food set brand_owner = ?, gtin = ?, ingredients = ?, ingredients_lang = ?, serving_g = ?,
-       serving_text = ?, food_group = coalesce(?, food_group), alt_names = ?, additive_scan = ?,
-       additive_scan_version = ? where id = ?`,
-  );
-  for await (const { row, file, at } of rowsOf(
-    'branded_food.csv',
-    ['fdc_id', 'brand_owner', 'gtin_upc', 'ingredients'],
-    true,
-  )) {
-    const foodId = foods.get(Number(row.get('fdc_id')));
-    if (foodId === undefined) {
-      issues.skip(
-        file,
-        row.line,
-        ImportCodes.rowUnknownFood,
-        `${at}: no branded food ${row.get('fdc_id')} in food.csv`,
-      );
-      continue;
-    }
-    const size = parseNumberField(row.get('serving_size'));
-    const unit = row.get('serving_size_unit').trim().toLowerCase();
-    const servingG =
-      size.ok && size.value !== null && size.value > 0 && (unit === 'g' || unit === 'grm')
-        ? size.value
-        : null;
-    const ingredients = row.get('ingredients').trim() || null;
-    // The Branded Foods set is the US label data: ingredient statements are in English.
-    const scan = ingredients ? scanIngredients(ingredients, 'en') : null;
-    const alt = [row.get('brand_name'), row.get('subbrand_name'), row.get('brand_owner')]
-      .map((s) => s.trim())
-      .filter(Boolean);
-    const gtin = row.get('gtin_upc').trim();
-    const household = row.get('household_serving_fulltext').trim();
-    branded.run(
-      row.get('brand_owner').trim() || null,
-      gtin || null,
-      ingredients,
-      ingredients ? 'en' : null,
-      servingG,
-      household || (size.ok && size.value !== null ? `${size.value} ${unit}` : null),
-      row.get('branded_food_category').trim() || null,
-      JSON.stringify([...new Set(alt)]),
-      scan?.scan ?? null,
-      scan?.version ?? null,
-      foodId,
-    );
-    if (servingG !== null) writer.addPortion(foodId, 1, 1, household || 'serving', servingG);
-  }
+  await readNdbNumbers(rowsOf, writer, issues);
+  await readBranded(rowsOf, writer, issues);
 
   writer.onDuplicateValue = (file, line) =>
     issues.skip(
@@ -248,8 +214,7 @@ async function readAll(set: FileSet, ctx: ImportContext): Promise<void> {
     'amount',
   ])) {
     const fdcId = Number(row.get('fdc_id'));
-    const foodId = foods.get(fdcId);
-    if (foodId === undefined) {
+    if (!writer.hasFood(fdcId)) {
       if (!Number.isInteger(fdcId)) {
         issues.skip(
           file,
@@ -282,7 +247,7 @@ async function readAll(set: FileSet, ctx: ImportContext): Promise<void> {
     }
     const d = derivations.get(row.get('derivation_id').trim());
     writer.addValue(
-      foodId,
+      fdcId,
       defId,
       v.value,
       d?.code ?? (row.get('derivation_id').trim() || null),
@@ -299,9 +264,16 @@ async function readAll(set: FileSet, ctx: ImportContext): Promise<void> {
     'food_portion.csv',
     ['fdc_id', 'gram_weight'],
     true,
+    {
+      portion_description: 'portion descriptions',
+      modifier: 'portion modifiers',
+      measure_unit_id: 'portion units',
+      amount: 'portion amounts (1 assumed)',
+      seq_num: 'portion order',
+    },
   )) {
-    const foodId = foods.get(Number(row.get('fdc_id')));
-    if (foodId === undefined) {
+    const foodId = Number(row.get('fdc_id'));
+    if (!writer.hasFood(foodId)) {
       outside++;
       continue;
     }
@@ -328,6 +300,109 @@ async function readAll(set: FileSet, ctx: ImportContext): Promise<void> {
   }
   if (outside > 0)
     issues.notes.push(`${outside} food_portion.csv rows belong to left-out sample records`);
+}
+
+type RowsOf = (
+  baseName: string,
+  required: string[],
+  optional?: boolean,
+  wanted?: Record<string, string>,
+) => AsyncGenerator<{ row: CsvRow; file: string; at: string }>;
+
+/**
+ * An optional column the file's header lacks (an older or newer release) is said once, in the
+ * notes, with what is left empty: never read as empty values without a word.
+ */
+function reportAbsentColumns(
+  file: string,
+  header: readonly string[],
+  wanted: Record<string, string>,
+  issues: IssueLog,
+): void {
+  const absent = Object.keys(wanted).filter((c) => !header.includes(c));
+  if (absent.length === 0) return;
+  issues.notes.push(
+    `${file} has no column${absent.length > 1 ? 's' : ''} ${absent.join(', ')} (this release's layout): ${absent.map((c) => wanted[c]).join(', ')} left empty for every food`,
+  );
+}
+
+/** SR28 NDB numbers of SR Legacy and Foundation foods, so two releases' foods can be linked. */
+async function readNdbNumbers(rowsOf: RowsOf, writer: SourceWriter, issues: IssueLog) {
+  for (const name of ['sr_legacy_food.csv', 'foundation_food.csv']) {
+    for await (const { row, file, at } of rowsOf(name, ['fdc_id', 'NDB_number'], true)) {
+      const fdcId = Number(row.get('fdc_id'));
+      const ndb = row.get('NDB_number').trim();
+      if (!ndb) continue;
+      if (!/^\d+$/.test(ndb)) {
+        issues.report(
+          file,
+          row.line,
+          ImportCodes.rowNumber,
+          `${at}: NDB_number '${ndb}' is not a number: not kept`,
+        );
+        continue;
+      }
+      // SR28 writes NDB numbers with 5 digits ('01001'); FDC drops the leading zeros.
+      if (writer.hasFood(fdcId)) writer.updateFood(fdcId, { ndbNumber: ndb.padStart(5, '0') });
+    }
+  }
+}
+
+/** The label data of Branded foods (branded_food.csv). */
+async function readBranded(rowsOf: RowsOf, writer: SourceWriter, issues: IssueLog) {
+  for await (const { row, file, at } of rowsOf(
+    'branded_food.csv',
+    ['fdc_id', 'brand_owner', 'gtin_upc', 'ingredients'],
+    true,
+    {
+      serving_size: 'serving sizes',
+      serving_size_unit: 'serving units',
+      household_serving_fulltext: 'household servings',
+      branded_food_category: 'categories',
+      brand_name: 'brand names',
+      subbrand_name: 'sub-brand names',
+    },
+  )) {
+    const fdcId = Number(row.get('fdc_id'));
+    if (!writer.hasFood(fdcId)) {
+      issues.skip(
+        file,
+        row.line,
+        ImportCodes.rowUnknownFood,
+        `${at}: no branded food ${row.get('fdc_id')} in food.csv`,
+      );
+      continue;
+    }
+    const size = parseNumberField(row.get('serving_size'));
+    const unit = row.get('serving_size_unit').trim().toLowerCase();
+    const amount = size.ok && size.value !== null && size.value > 0 ? size.value : null;
+    // FDC units: 'g'/'GRM' grams, 'ml'/'MLT' millilitres. A volume stays a volume.
+    const servingG = amount !== null && (unit === 'g' || unit === 'grm') ? amount : null;
+    const servingMl = amount !== null && (unit === 'ml' || unit === 'mlt') ? amount : null;
+    const ingredients = row.get('ingredients').trim() || null;
+    // The Branded Foods set is the US label data: ingredient statements are in English.
+    const scan = ingredients ? scanIngredients(ingredients, 'en') : null;
+    const alt = [row.get('brand_name'), row.get('subbrand_name'), row.get('brand_owner')]
+      .map((s) => s.trim())
+      .filter(Boolean);
+    const gtin = row.get('gtin_upc').trim();
+    const household = row.get('household_serving_fulltext').trim();
+    const category = row.get('branded_food_category').trim();
+    writer.updateFood(fdcId, {
+      brandOwner: row.get('brand_owner').trim() || null,
+      gtin: gtin || null,
+      ingredients,
+      ingredientsLang: ingredients ? 'en' : null,
+      servingG,
+      servingMl,
+      servingText: household || (amount !== null ? `${amount} ${unit}` : null),
+      ...(category ? { group: category } : {}),
+      altNames: [...new Set(alt)],
+      additiveScan: scan?.scan ?? null,
+      additiveScanVersion: scan?.version ?? null,
+    });
+    if (servingG !== null) writer.addPortion(fdcId, 1, 1, household || 'serving', servingG);
+  }
 }
 
 function portionText(row: CsvRow, unit: string | undefined): string {
@@ -357,16 +432,14 @@ export const fdcCsv: Importer = {
     let set: FileSet;
     try {
       if (!path) throw structural('(none)', null, ImportCodes.notFound, 'fdc-csv needs a path');
-      set = await openFileSet(path);
+      set = await openFileSet(path, options.limits);
       for (const f of REQUIRED_FILES) requireEntry(set, f);
     } catch (err) {
       return failedBeforeStart(meta.format, err);
     }
-    const total = set.entries
-      .filter((e) => e.name.endsWith('.csv'))
-      .reduce((n, e) => n + e.size, 0);
+    const input = set.entries.filter((e) => /\.csv(\.gz)?$/i.test(e.name));
     try {
-      return await runImport(db, meta, options, total, (ctx) => readAll(set, ctx));
+      return await runImport(db, meta, options, input, (ctx) => readAll(set, ctx));
     } finally {
       set.close();
     }

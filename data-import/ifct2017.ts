@@ -117,14 +117,13 @@ async function readAll(set: FileSet, ctx: ImportContext): Promise<void> {
 
   let columns: Array<{ key: string; index: number; defId: number; factor: number }> | null = null;
   const leftOut: string[] = [];
-  const stream = await entry.open();
+  const stream = await entry.open(progress.bytes);
   for await (const batch of readCsv(stream, {
     file,
     delimiter: ',',
     quoted: true,
     required: ['code', 'name', 'grup', 'p', 'protcnt', 'enerc'],
     issues,
-    onBytes: progress.bytes,
     // Header cells read "Phosphorus (P); p": the key is the code after the semicolon.
     columnKey: (h) => (h.includes(';') ? (h.split(';').pop() ?? h).trim() : h),
   })) {
@@ -236,14 +235,14 @@ export const ifct2017: Importer = {
     };
     let set: FileSet;
     try {
-      set = await openFileSet(path ?? defaultIfctPath());
+      set = await openFileSet(path ?? defaultIfctPath(), options.limits);
       requireEntry(set, 'index.csv');
     } catch (err) {
       return failedBeforeStart(meta.format, err);
     }
-    const total = set.find('index.csv')?.size ?? 0;
+    const input = set.entries.filter((e) => e === set.find('index.csv'));
     try {
-      return await runImport(db, meta, options, total, (ctx) => readAll(set, ctx));
+      return await runImport(db, meta, options, input, (ctx) => readAll(set, ctx));
     } finally {
       set.close();
     }

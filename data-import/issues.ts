@@ -19,7 +19,49 @@ export const ImportCodes = {
   rowUnknownNutrient: 'PHL_IMPORT_ROW_UNKNOWN_NUTRIENT',
   rowMissing: 'PHL_IMPORT_ROW_MISSING_FIELD',
   rowQuote: 'PHL_IMPORT_ROW_QUOTES',
+  decompress: 'PHL_IMPORT_DECOMPRESS',
+  unpackLimit: 'PHL_IMPORT_UNPACK_LIMIT',
+  diskSpace: 'PHL_IMPORT_DISK_SPACE',
+  busy: 'PHL_IMPORT_BUSY',
+  rowImplausible: 'PHL_IMPORT_ROW_IMPLAUSIBLE',
+  columnAbsent: 'PHL_IMPORT_COLUMN_ABSENT',
+  json: 'PHL_IMPORT_JSON',
 } as const;
+
+/** Said with every error that stops an import. */
+export const NOT_CHANGED = 'the database was not changed';
+
+/**
+ * A failure of the decompressor (zlib, or the zip reader) while reading `file`: the file is
+ * damaged or cut short. Returns the structural error to throw, or null for other errors.
+ */
+export function decompressFailure(
+  err: unknown,
+  file: string,
+  line: number | null,
+): StructuralError | null {
+  if (err instanceof StructuralError) return err;
+  const e = err as { code?: unknown; errno?: unknown; message?: unknown };
+  const code = typeof e?.code === 'string' ? e.code : '';
+  const msg = typeof e?.message === 'string' ? e.message : '';
+  const zlib =
+    code.startsWith('Z_') ||
+    /unexpected end of file|incorrect header check|invalid (stored|block|distance|code)|too many length|crc|zip/i.test(
+      msg,
+    );
+  if (!zlib) return null;
+  const why = /unexpected end/i.test(msg)
+    ? 'it ends early (a cut download?)'
+    : /header check/i.test(msg)
+      ? 'it is not compressed data of its kind (a renamed file?)'
+      : 'its compressed data is damaged';
+  return structural(
+    file,
+    line,
+    ImportCodes.decompress,
+    `${file}${line !== null ? ` line ${line}` : ''}: cannot unpack: ${why} (${code || msg}); ${NOT_CHANGED}`,
+  );
+}
 
 /** A structural problem: the import stops, rolls back and reports this. */
 export class StructuralError extends Error {

@@ -1,54 +1,36 @@
 import { basename } from 'node:path';
 import type { Db } from '../src/db/database.js';
-import { scanIngredients } from './additive-scan.js';
 import { readCsv, type CsvRow } from './csv.js';
 import { openFileSet, type FileSet } from './files.js';
 import type { ImportOptions, ImportResult, Importer } from './importer.js';
-import { ImportCodes, parseNumberField, structural } from './issues.js';
+import { ImportCodes, structural } from './issues.js';
+import { OffDefs, isOffNutrient, localNamesFrom, stageOffProduct } from './off-product.js';
 import { failedBeforeStart, runImport, type ImportContext } from './run.js';
 
-/**
- * Units of the `_100g` columns: grams, except energy in kJ ("energy-kcal_100g" in kcal), per the
- * Open Food Facts CSV field documentation ("fields that end with _100g correspond to the amount
- * of a nutriment (in g, or kJ for energy) for 100 g or 100 ml of product").
- */
-function unitOf(column: string): string {
-  if (column === 'energy-kcal_100g') return 'kcal';
-  if (column.startsWith('energy')) return 'kJ';
-  return 'g';
-}
-const TAGS: Record<string, string> = {
-  proteins_100g: 'PROCNT',
-  phosphorus_100g: 'P',
-  potassium_100g: 'K',
-  sodium_100g: 'NA',
-  calcium_100g: 'CA',
-  'energy-kcal_100g': 'ENERC_KCAL',
-  'energy-kj_100g': 'ENERC_KJ',
-  energy_100g: 'ENERC_KJ',
-  'phytic-acid_100g': 'PHYTAC',
-};
-// `_100g` columns that are scores or properties, not amounts of a nutrient.
-const NOT_NUTRIENTS =
-  /score|footprint|^ph_|glycemic|hardness|fruits-vegetables|cocoa|collagen|nova/;
+/** Ingredient columns with a language suffix (`ingredients_text_fr`), where a header has them. */
+const LANG_COLUMN = /^ingredients_text_([a-z]{2,3})$/;
 
 /**
- * The product's names in other languages: the export's language-suffixed columns
- * (`product_name_es`, `product_name_fr`, ...; `generic_name_<lc>` when the product name is
- * empty), as Open Food Facts documents its per-language fields. Names equal to the main name
- * are left out.
+ * How this file's header says the ingredient language: per-language ingredient columns, or a
+ * `lang`/`lc` column; the current export header (reference/formats) has neither, so its
+ * statements are scanned in every catalogue language (said once in the notes).
  */
+function languageColumns(header: readonly string[]) {
+  const suffixed: Array<{ index: number; lang: string }> = [];
+  header.forEach((h, index) => {
+    const m = LANG_COLUMN.exec(h);
+    if (m?.[1]) suffixed.push({ index, lang: m[1] });
+  });
+  const langIndex = ['lang', 'lc'].map((c) => header.indexOf(c)).find((i) => i >= 0) ?? -1;
+  return { suffixed, langIndex };
+}
+
+/** The product's own names in other languages from a CSV row (see `localNamesFrom`). */
 export function localNames(row: CsvRow, mainName: string): Array<[string, string]> {
-  const out = new Map<string, string>();
-  for (const column of row.header) {
-    const m = /^(product|generic)_name_([a-z]{2,3})$/.exec(column);
-    if (!m) continue;
-    const language = m[2] as string;
-    const value = row.get(column).trim();
-    if (!value || value === mainName) continue;
-    if (m[1] === 'product' || !out.has(language)) out.set(language, value);
-  }
-  return [...out];
+  return localNamesFrom(
+    row.header.map((c): [string, string] => [c, row.get(c)]),
+    mainName,
+  );
 }
 
 async function readAll(set: FileSet, ctx: ImportContext): Promise<void> {
@@ -57,99 +39,69 @@ async function readAll(set: FileSet, ctx: ImportContext): Promise<void> {
   if (!entry) throw structural(set.label, null, ImportCodes.missingFile, `${set.label} is empty`);
   const file = entry.name;
   progress.setFile(file);
-  let nutrients: Array<{ column: string; index: number; defId: number }> | null = null;
-  const stream = await entry.open();
-  const text = (row: CsvRow, c: string) => row.get(c).trim();
+  const defs = new OffDefs(writer);
+  let layout: {
+    nutrients: Array<{ column: string; index: number }>;
+    langs: ReturnType<typeof languageColumns>;
+  } | null = null;
+  const stream = await entry.open(progress.bytes);
   for await (const batch of readCsv(stream, {
     file,
     delimiter: '\t',
     quoted: false, // the export never quotes; a '"' is part of the text
     required: ['code', 'product_name'],
     issues,
-    onBytes: progress.bytes,
   })) {
-    if (!nutrients) {
-      const first = batch[0];
-      if (!first) continue;
-      nutrients = [];
-      first.header.forEach((column, index) => {
-        if (!column.endsWith('_100g') || NOT_NUTRIENTS.test(column)) return;
-        const defId = writer.defineNutrient({
-          code: column,
-          name: column.replace(/_100g$/, '').replace(/-/g, ' '),
-          unit: unitOf(column),
-          tag: TAGS[column] ?? null,
-          sortOrder: index,
-        });
-        (nutrients as NonNullable<typeof nutrients>).push({ column, index, defId });
-      });
-    }
-    for (const row of batch) {
-      const at = `${file} line ${row.line}`;
-      const code = text(row, 'code');
-      const name = text(row, 'product_name') || text(row, 'generic_name');
-      if (!code) {
-        issues.skip(file, row.line, ImportCodes.rowMissing, `${at}: code (barcode) is empty`);
-        continue;
-      }
-      if (!name) {
-        issues.skip(file, row.line, ImportCodes.rowMissing, `${at}: product ${code} has no name`);
-        continue;
-      }
-      const values: Array<[number, number]> = [];
-      for (const n of nutrients) {
-        const v = parseNumberField(row.fields[n.index]);
-        if (!v.ok) {
-          // One bad value does not lose the product (its ingredient statement matters).
-          issues.report(
-            file,
-            row.line,
-            v.code,
-            `${at}: product ${code}, ${n.column} ${v.reason}: value left out`,
-          );
-        } else if (v.value !== null) values.push([n.defId, v.value]);
-      }
-      const ingredients = text(row, 'ingredients_text') || null;
-      const lang = text(row, 'lang') || text(row, 'lc') || null;
-      const scan = ingredients ? scanIngredients(ingredients, lang) : null;
-      const brands = text(row, 'brands');
-      const serving = parseNumberField(row.get('serving_quantity'));
-      const servingG =
-        serving.ok && serving.value !== null && serving.value > 0 ? serving.value : null;
-      const group = text(row, 'main_category_en') || text(row, 'pnns_groups_2') || null;
-      const foodId = writer.addFood({
-        code,
-        name,
-        altNames: [text(row, 'generic_name'), ...brands.split(',').map((b) => b.trim())].filter(
-          (s) => s && s !== name,
-        ),
-        group: group === 'unknown' ? null : group,
-        kind: 'branded',
-        brandOwner: text(row, 'brand_owner') || brands.split(',')[0]?.trim() || null,
-        gtin: /^\d{8,14}$/.test(code) ? code : null,
-        ingredients,
-        ingredientsLang: lang,
-        servingG,
-        servingText: text(row, 'serving_size') || null,
-        additiveScan: scan?.scan ?? null,
-        additiveScanVersion: scan?.version ?? null,
-      });
-      if (foodId === null) {
-        issues.skip(
-          file,
-          row.line,
-          ImportCodes.rowDuplicate,
-          `${at}: barcode ${code} is already in this file`,
+    const first = batch[0];
+    if (!first) continue;
+    if (!layout) {
+      const nutrients = first.header
+        .map((column, index) => ({ column, index }))
+        .filter((n) => isOffNutrient(n.column));
+      nutrients.forEach((n) => defs.id(n.column, n.index));
+      layout = { nutrients, langs: languageColumns(first.header) };
+      if (layout.langs.suffixed.length === 0 && layout.langs.langIndex < 0) {
+        issues.notes.push(
+          `${file} has no language column (lang, lc or ingredients_text_<language>): ingredient statements are scanned for phosphate additives in every catalogue language`,
         );
-        continue;
       }
-      for (const [defId, value] of values)
-        writer.addValue(foodId, defId, value, null, null, file, row.line);
-      for (const [language, localName] of localNames(row, name))
-        writer.addLocalName(foodId, language, localName);
-      if (servingG !== null)
-        writer.addPortion(foodId, 1, 1, text(row, 'serving_size') || 'serving', servingG);
-      progress.rows++;
+    }
+    const { nutrients, langs } = layout;
+    for (const row of batch) {
+      const text = (c: string) => row.get(c).trim();
+      let ingredients = text('ingredients_text');
+      let lang: string | null =
+        langs.langIndex >= 0 ? row.fields[langs.langIndex]?.trim() || null : null;
+      // The statement in the product's language where a suffixed column has it, else any.
+      const filled = (x: { index: number }) => Boolean(row.fields[x.index]?.trim());
+      const pick =
+        langs.suffixed.find((x) => x.lang === lang && filled(x)) ??
+        (ingredients ? undefined : langs.suffixed.find(filled));
+      if (pick) {
+        ingredients = row.fields[pick.index]?.trim() ?? '';
+        lang = pick.lang;
+      }
+      const ok = stageOffProduct(
+        writer,
+        defs,
+        issues,
+        {
+          code: text('code'),
+          productName: text('product_name'),
+          genericName: text('generic_name'),
+          brands: text('brands'),
+          brandOwner: text('brand_owner'),
+          group: text('main_category_en') || text('pnns_groups_2'),
+          ingredients,
+          ingredientsLang: lang,
+          servingSize: text('serving_size'),
+          servingQuantity: text('serving_quantity'),
+          localNames: localNames(row, text('product_name')),
+          nutrients: nutrients.map((n) => [n.column, row.fields[n.index]] as [string, unknown]),
+        },
+        { file, line: row.line },
+      );
+      if (ok) progress.rows++;
     }
   }
 }
@@ -171,7 +123,7 @@ export const offCsv: Importer = {
     let set: FileSet;
     try {
       if (!path) throw structural('(none)', null, ImportCodes.notFound, 'off-csv needs a file');
-      set = await openFileSet(path);
+      set = await openFileSet(path, options.limits);
       if (set.entries.length !== 1) {
         throw structural(
           path,
@@ -184,9 +136,7 @@ export const offCsv: Importer = {
       return failedBeforeStart(meta.format, err);
     }
     try {
-      return await runImport(db, meta, options, set.entries[0]?.size ?? 0, (ctx) =>
-        readAll(set, ctx),
-      );
+      return await runImport(db, meta, options, set.entries, (ctx) => readAll(set, ctx));
     } finally {
       set.close();
     }

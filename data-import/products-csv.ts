@@ -49,14 +49,13 @@ async function readAll(set: FileSet, ctx: ImportContext): Promise<void> {
       sortOrder: i,
     }),
   }));
-  const stream = await entry.open();
+  const stream = await entry.open(progress.bytes);
   for await (const batch of readCsv(stream, {
     file,
     delimiter: ',',
     quoted: true,
     required: REQUIRED,
     issues,
-    onBytes: progress.bytes,
   })) {
     for (const row of batch) {
       const at = `${file} line ${row.line}`;
@@ -151,7 +150,7 @@ export const productsCsv: Importer = {
     try {
       if (!path)
         throw structural('(none)', null, ImportCodes.notFound, 'products-csv needs a file');
-      set = await openFileSet(path);
+      set = await openFileSet(path, options.limits);
       if (set.entries.length !== 1) {
         throw structural(
           path,
@@ -164,9 +163,7 @@ export const productsCsv: Importer = {
       return failedBeforeStart(meta.format, err);
     }
     try {
-      return await runImport(db, meta, options, set.entries[0]?.size ?? 0, (ctx) =>
-        readAll(set, ctx),
-      );
+      return await runImport(db, meta, options, set.entries, (ctx) => readAll(set, ctx));
     } finally {
       set.close();
     }

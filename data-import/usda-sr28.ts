@@ -19,8 +19,8 @@ async function readAll(set: FileSet, ctx: ImportContext): Promise<void> {
   ) => {
     const e = entry(name);
     progress.setFile(e.name);
-    const stream = await e.open();
-    await readCaretFile(stream, e.name, FIELDS[name], issues, progress.bytes, want, (f, line) =>
+    const stream = await e.open(progress.bytes);
+    await readCaretFile(stream, e.name, FIELDS[name], issues, undefined, want, (f, line) =>
       onRow(f, line, e.name),
     );
   };
@@ -66,6 +66,7 @@ async function readAll(set: FileSet, ctx: ImportContext): Promise<void> {
       group: groups.get(group ?? '') ?? null,
       kind: 'generic',
       brandOwner: manufacturer || null,
+      ndbNumber: ndb,
     });
     if (id === null) {
       issues.skip(
@@ -183,14 +184,14 @@ export const usdaSr28: Importer = {
     let set: FileSet;
     try {
       if (!path) throw structural('(none)', null, ImportCodes.notFound, 'usda-sr28 needs a path');
-      set = await openFileSet(path);
+      set = await openFileSet(path, options.limits);
       for (const f of FILES) requireEntry(set, f);
     } catch (err) {
       return failedBeforeStart(meta.format, err);
     }
-    const total = FILES.reduce((n, f) => n + (set.find(f)?.size ?? 0), 0);
+    const input = FILES.map((f) => set.find(f)).filter((e) => e !== undefined);
     try {
-      return await runImport(db, meta, options, total, (ctx) => readAll(set, ctx));
+      return await runImport(db, meta, options, input, (ctx) => readAll(set, ctx));
     } finally {
       set.close();
     }

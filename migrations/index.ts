@@ -7,6 +7,7 @@ import * as diaryAudits from './202612012110_diary_audits.js';
 import * as foodSearchPrefix from './202612012120_food_search_prefix.js';
 import * as foodNameStart from './202612012130_food_name_start_index.js';
 import * as patientDialysisDetails from './202612060100_patient_dialysis_details.js';
+import * as foodReleaseLinks from './202612060400_food_release_links.js';
 import * as glossaryDrafts from './202612060500_glossary_drafts.js';
 import * as labResults from './202612060800_lab_results.js';
 
@@ -23,6 +24,7 @@ export const migrations: Record<string, Migration> = {
   '202612012120_food_search_prefix': foodSearchPrefix,
   '202612012130_food_name_start_index': foodNameStart,
   '202612060100_patient_dialysis_details': patientDialysisDetails,
+  '202612060400_food_release_links': foodReleaseLinks,
   '202612060500_glossary_drafts': glossaryDrafts,
   '202612060800_lab_results': labResults,
 };

@@ -38,6 +38,10 @@ export interface FoodTable {
   phytate_mg: number | null;
   additive_scan: string | null;
   additive_scan_version: string | null;
+  /** SR28 NDB number (usda-sr28 code; FDC sr_legacy_food / foundation_food), for linking releases. */
+  ndb_number: Generated<string | null>;
+  /** A label serving given as a volume (ml); no grams without a density. */
+  serving_ml: Generated<number | null>;
 }
 
 export interface NutrientDefTable {

@@ -30,8 +30,15 @@ export const importFieldsSchema = z
   })
   .strict();
 
-/** Largest upload accepted (the full SR28 ASCII zip is about 7 MB; FDC CSV zips are larger). */
-export const MAX_IMPORT_BYTES = 512 * 1024 * 1024;
+/**
+ * Largest upload accepted, set on the upload route itself (the file is streamed to disk, never
+ * held in memory): 4 GiB holds the full Open Food Facts CSV export (.csv.gz, about 1 GB as of
+ * 2025, from memory) and the FDC Branded zips (under 1 GB, from memory).
+ */
+export const MAX_IMPORT_BYTES = 4 * 1024 ** 3;
+
+/** Imports that may wait while one runs; more are refused with 409 (one import at a time). */
+export const MAX_WAITING_IMPORTS = 1;
 
 /** A file name safe to keep in a temp folder: the last path segment, plain characters only. */
 export function safeUploadName(name: string): string {

@@ -1,11 +1,11 @@
-import { writeFileSync } from 'node:fs';
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { fdcCsv } from '../../data-import/fdc-csv.js';
 import { fixedClock } from '../../src/clock.js';
 import { openMemoryDb } from '../../src/db/database.js';
 import { FoodRepository } from '../../src/foods/foods.repository.js';
-import { copyFixture, fixtureFiles, makeZip, snapshot, tempDir } from './helpers.js';
+import { copyFixture, FIXTURES, fixtureFiles, makeZip, snapshot, tempDir } from './helpers.js';
 
 const clock = fixedClock('2026-03-05T09:30:00Z'); // invented fixed test time
 
@@ -66,10 +66,35 @@ describe('fdc-csv: FoodData Central CSV layout (invented demo rows, test/fixture
         servingText: '1 slice',
         per100g: { phosphorusMg: 893, proteinG: 17.86 },
       });
-      expect(cheese?.altNames).toEqual(['DEMO', 'Demo Dairy Co.']);
-      // A serving in ml is not a weight: no serving_g for the cola.
+      // The 2019 Branded layout has no brand_name / subbrand_name: said once, not read as ''.
+      expect(cheese?.altNames).toEqual(['Demo Dairy Co.']);
+      expect(r.notes.filter((n) => n.includes('brand_name'))).toEqual([
+        "branded_food.csv has no columns brand_name, subbrand_name (this release's layout): brand names, sub-brand names left empty for every food",
+      ]);
+      // A serving in ml is not a weight: no serving_g for the cola, the volume kept as ml.
       expect((await repo.getFood(id('900003')))?.servingG).toBeNull();
+      const col = (code: string, c: string) =>
+        (db.sqlite.prepare(`select ${c} as v from food where code = ?`).get(code) as { v: unknown })
+          .v;
+      expect(col('900003', 'serving_ml')).toBe(355);
+      // sr_legacy_food.csv: NDB_number 1999 (invented) kept as SR28 writes it, '01999'.
+      expect(col('900001', 'ndb_number')).toBe('01999');
+      expect(col('900002', 'ndb_number')).toBeNull();
     }));
+
+  it('uses exactly the real headers of each FDC CSV file (reference/formats copies)', () => {
+    const files = fixtureFiles('fdc-mini');
+    for (const [name, bytes] of Object.entries(files)) {
+      if (!name.endsWith('.csv')) continue;
+      const first = bytes.toString('utf8').split('\n')[0];
+      const real = ['fdc-sr-legacy-csv', 'fdc-foundation-csv', 'fdc-branded-csv-2019']
+        .map((d) => join(FIXTURES, 'formats', d, name))
+        .filter((f) => existsSync(f))
+        .map((f) => readFileSync(f, 'utf8').split('\n')[0]);
+      expect({ name, found: real.length > 0 }).toEqual({ name, found: true });
+      expect({ name, first }).toEqual({ name, first: real.includes(first) ? first : real[0] });
+    }
+  });
 
   it('stores the additive scan of each ingredient statement with the catalogue version', () =>
     withDb(async (db, dir) => {

@@ -6,6 +6,7 @@ import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { importDefaultFoodTable } from '../../data-import/first-start.js';
 import { productsCsv } from '../../data-import/products-csv.js';
+import { removeDeadReservations } from '../../data-import/writer.js';
 import { runCli } from '../../src/cli/main.js';
 import { fixedClock } from '../../src/clock.js';
 import { openDb, openMemoryDb } from '../../src/db/database.js';
@@ -50,7 +51,17 @@ describe('phosledger import <format> <path>', () => {
         'imported products-csv clinic: 1 foods, 2 values, 0 portions; 1 rows skipped\n',
       );
       expect(r.err).toContain('clinic.csv:3  PHL_IMPORT_ROW_NEGATIVE');
+      // Not a terminal: progress lines on stderr (the first report and each phase).
+      expect(r.err).toMatch(/^import products-csv: 0% of \d+ KiB read .*reading clinic\.csv$/m);
+      expect(r.err).toMatch(/^import products-csv: 100% .*publishing into the database/m);
       const json = await cli(['import', 'products-csv', bad, '--json', '--release', 'v2'], db);
+      const lines = json.err
+        .trim()
+        .split('\n')
+        .map((l) => JSON.parse(l));
+      expect(lines.at(-1)).toMatchObject({
+        progress: { format: 'products-csv', phase: 'publishing', fraction: 1, rows: 1 },
+      });
       expect(JSON.parse(json.out)).toMatchObject({
         ok: true,
         release: 'v2',
@@ -117,6 +128,11 @@ describe('an import killed halfway leaves the earlier data intact', () => {
       expect(
         (await productsCsv.run(seeded, join(FIXTURES, 'products-mini.csv'), { clock })).ok,
       ).toBe(true);
+      const counts = (d: typeof seeded) =>
+        ['food', 'nutrient_value', 'portion', 'nutrient_def', 'food_fts'].map(
+          (t) => (d.sqlite.prepare(`select count(*) as n from ${t}`).get() as { n: number }).n,
+        );
+      const before = counts(seeded);
       await seeded.close();
       // A clinic file of 200,000 invented products: long enough to be killed mid-way.
       const big = join(t.dir, 'big.csv');
@@ -144,8 +160,21 @@ describe('an import killed halfway leaves the earlier data intact', () => {
         after.sqlite.prepare('select format, release, food_count from food_source').all(),
       ).toEqual([{ format: 'products-csv', release: 'products-mini', food_count: 3 }]);
       expect(after.sqlite.prepare('select count(*) as n from food').get()).toEqual({ n: 3 });
-      expect(after.sqlite.prepare('select count(*) as n from food_fts').get()).toEqual({ n: 3 });
+      // Killed while publishing in steps: rows written under the ids it had reserved are not
+      // seen by any query (search joins food, and no food row has those ids) ...
+      expect(
+        after.sqlite
+          .prepare('select count(*) as n from food_fts join food on food.id = food_fts.rowid')
+          .get(),
+      ).toEqual({ n: 3 });
       expect(after.sqlite.pragma('integrity_check', { simple: true })).toBe('ok');
+      // ... and the next import's first step removes them: the tables are as before.
+      removeDeadReservations(after);
+      expect(counts(after)).toEqual(before);
+      expect(after.sqlite.prepare('select count(*) as n from import_reservation').get()).toEqual({
+        n: 0,
+      });
+      expect(after.sqlite.pragma('foreign_key_check')).toEqual([]);
       await after.close();
     } finally {
       t.cleanup();

@@ -39,13 +39,18 @@ describe('off-csv: Open Food Facts export layout (invented demo products, off-mi
   it('imports products, converts g to mg, keeps products without phosphorus and reports bad values', () =>
     withDb(async (db) => {
       const r = await offCsv.run(db, join(FIXTURES, 'off-mini.csv'), { clock });
-      expect(r).toMatchObject({ ok: true, imported: 4, skipped: 0, release: 'off-mini' });
+      expect(r).toMatchObject({ ok: true, imported: 6, skipped: 0, release: 'off-mini' });
       if (!r.ok) return;
-      // Row 4 (line 4): phosphorus 'abc'; row 5 (line 5): phosphorus -0.1: values left out, products kept.
+      // Line 4: phosphorus 'abc'; line 5: phosphorus -0.1: values left out, products kept.
+      // Lines 6 and 7: implausible values, left out and reported once per product.
       expect(r.errors.map((e) => [e.line, e.code])).toEqual([
         [4, 'PHL_IMPORT_ROW_NUMBER'],
         [5, 'PHL_IMPORT_ROW_NEGATIVE'],
+        [6, 'PHL_IMPORT_ROW_IMPLAUSIBLE'],
+        [7, 'PHL_IMPORT_ROW_IMPLAUSIBLE'],
       ]);
+      // The real export header has no language column: said once.
+      expect(r.notes.join(' ')).toMatch(/no language column/);
       const repo = new FoodRepository(db.kysely);
       const id = (code: string) =>
         (db.sqlite.prepare('select id from food where code = ?').get(code) as { id: number }).id;
@@ -57,7 +62,7 @@ describe('off-csv: Open Food Facts export layout (invented demo products, off-mi
         kind: 'branded',
         brandOwner: 'Demo Lácteos',
         gtin: '4000000000017',
-        ingredientsLanguage: 'es',
+        ingredientsLanguage: null,
         servingG: 20,
         group: 'Processed cheeses',
       });
@@ -66,16 +71,49 @@ describe('off-csv: Open Food Facts export layout (invented demo products, off-mi
       expect(cheese?.per100g.calciumMg).toBeCloseTo(450, 9);
       expect(cheese?.per100g.potassiumMg).toBeCloseTo(150, 9);
       expect(cheese?.per100g).toMatchObject({ energyKcal: 280, proteinG: 13 });
+      const col = (code: string, c: string) =>
+        (db.sqlite.prepare(`select ${c} as v from food where code = ?`).get(code) as { v: unknown })
+          .v;
+      expect(col('4000000000017', 'water_g')).toBe(48); // water_100g 48 g (invented)
       // The cola has no phosphorus value: imported anyway, phosphorus null (never 0).
       const cola = await repo.getFood(id('4000000000024'));
       expect(cola?.name).toBe('Demo cola "zero" drink'); // the export never quotes: '"' is text
       expect(cola?.per100g.phosphorusMg).toBeNull();
       expect(cola?.ingredients).toMatch(/acide phosphorique/);
+      // "330 ml": a volume stays a volume (no density, so no grams and no gram portion).
+      expect(cola?.servingG).toBeNull();
+      expect(col('4000000000024', 'serving_ml')).toBe(330);
+      // Line 6: sodium_100g 96 g is more sodium than pure salt holds (39.3 g/100 g): left out,
+      // never stored as 96,000 mg; salt 0.24 g and phosphorus 0.35 g -> 350 mg are kept.
+      expect(col('4000000000055', 'sodium_mg')).toBeNull();
+      expect(col('4000000000055', 'phosphorus_mg')).toBeCloseTo(350, 9);
+      expect(r.errors[2]?.message).toMatch(/product 4000000000055: implausible.*sodium_100g/);
+      // Line 7: 950 kcal > 900 (pure fat), fat 101 g > 100 g, and sodium 1.2 g vs salt 1.5 g /
+      // 2.5 = 0.6 g (disagree by 50% > 20%): all four left out; water 16 g kept.
+      const butter = r.errors[3]?.message ?? '';
+      for (const c of ['energy-kcal_100g', 'fat_100g', 'sodium_100g', 'salt_100g'])
+        expect(butter).toContain(c);
+      expect(col('4000000000062', 'energy_kcal')).toBeNull();
+      expect(col('4000000000062', 'sodium_mg')).toBeNull();
+      expect(col('4000000000062', 'water_g')).toBe(16);
+      const butterCodes = (await repo.getAllNutrients(id('4000000000062'))).map((n) => n.code);
+      expect(butterCodes).not.toContain('fat_100g');
+      expect(butterCodes).not.toContain('salt_100g');
       // The nutrition score is not a nutrient.
       expect(
         (await repo.getAllNutrients(id('4000000000017'))).some((n) => n.code.includes('score')),
       ).toBe(false);
     }));
+
+  it('has exactly the header of the real export (reference/formats copy)', () => {
+    const real = readFileSync(
+      join(FIXTURES, 'formats/off-csv/en.openfoodfacts.org.products.header.tsv'),
+      'utf8',
+    );
+    const mine = readFileSync(join(FIXTURES, 'off-mini.csv'), 'utf8');
+    expect(mine.split('\n')[0]).toBe(real.split('\n')[0]);
+    expect(real.split('\t')).toHaveLength(210);
+  });
 
   it('scans ingredient statements in their language for phosphate additives', () =>
     withDb(async (db) => {
@@ -97,7 +135,7 @@ describe('off-csv: Open Food Facts export layout (invented demo products, off-mi
       writeFileSync(gz, gzipSync(text));
       expect(await offCsv.run(db, gz, { clock })).toMatchObject({
         ok: true,
-        imported: 4,
+        imported: 6,
         release: 'products',
       });
       const before = snapshot(db);
@@ -118,7 +156,7 @@ describe('off-csv: Open Food Facts export layout (invented demo products, off-mi
         const res = await offCsv.run(db, join(dir, name), { clock, release: 'products' });
         expect({ name, code: res.ok ? 'ok' : res.fatal.code }).toEqual({ name, code });
         if (res.ok)
-          expect(res.errors.at(-1)).toMatchObject({ line: 6, code: 'PHL_IMPORT_ROW_DUPLICATE' });
+          expect(res.errors.at(-1)).toMatchObject({ line: 8, code: 'PHL_IMPORT_ROW_DUPLICATE' });
         else expect(snapshot(db)).toBe(before);
       }
     }));

@@ -3,6 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { migrateToLatest, openDb } from '../../src/db/database.js';
+import { writeOffExport } from '../fixtures/import/generate.js';
 import { createTestContext, type TestContext } from '../helpers/context.js';
 
 const FIXTURE = new URL('../fixtures/import/products-mini.csv', import.meta.url);
@@ -43,7 +44,7 @@ describe('upload imports (POST /api/imports)', () => {
     dir = mkdtempSync(join(tmpdir(), 'phosledger-imports-'));
     const db = openDb(join(dir, 'db.sqlite'));
     await migrateToLatest(db);
-    ctx = await createTestContext({ db });
+    ctx = await createTestContext({ db, as: 'admin' });
   });
   afterAll(async () => {
     await ctx.close();
@@ -163,5 +164,59 @@ describe('upload imports (POST /api/imports)', () => {
     expect(anon.statusCode).toBe(401);
     const missing = await ctx.inject({ url: '/api/imports/999' });
     expect(missing.statusCode).toBe(404);
+    // Importing changes the food tables for everyone: admins only.
+    const dietitian = await ctx.signIn('dietitian');
+    const refused = await dietitian.inject({
+      method: 'POST',
+      url: '/api/imports',
+      ...multipart([
+        ['format', 'products-csv'],
+        ['file', 'a.csv', readFileSync(FIXTURE)],
+      ]),
+    });
+    expect(refused.statusCode).toBe(403);
+  });
+
+  it('runs one import at a time, lets one wait, refuses a third with 409, and audits start and end', async () => {
+    const big = join(dir, 'demo.csv');
+    writeOffExport(big, 4000); // invented demo products in the real export layout
+    const body = readFileSync(big);
+    const send = (release: string) =>
+      ctx.inject({
+        method: 'POST',
+        url: '/api/imports',
+        ...multipart([
+          ['format', 'off-csv'],
+          ['release', release],
+          ['file', 'demo.csv', body],
+        ]),
+      });
+    const first = await send('busy-1');
+    const second = await send('busy-2');
+    const third = await send('busy-3');
+    expect([first.statusCode, second.statusCode, third.statusCode]).toEqual([202, 202, 409]);
+    expect(third.json().error).toMatchObject({ code: 'PHL_IMPORT_BUSY' });
+    expect(third.json().error.message).toMatch(/an import is running and another is waiting/);
+    expect(second.json().state).toBe('queued');
+    const a = await finished(first.json().id);
+    const b = await finished(second.json().id);
+    expect([a.state, b.state]).toEqual(['done', 'done']);
+    expect(a.result).toMatchObject({ ok: true, imported: 4000 });
+    // With both finished, an import is accepted again.
+    const again = await send('busy-1');
+    expect(again.statusCode).toBe(202);
+    await finished(again.json().id);
+    // Audit: each start (route) and each end with its counts, by the admin who started it.
+    const rows = ctx.db.sqlite
+      .prepare(
+        "select action, username, outcome, details_json as details from audit_event where action like 'import.%' order by id",
+      )
+      .all() as Array<{ action: string; username: string; outcome: string; details: string }>;
+    const ends = rows.filter(
+      (r) => r.action === 'import.run' && r.details.includes('"foods":4000'),
+    );
+    expect(ends).toHaveLength(3);
+    expect(ends.every((r) => r.username === 'test-admin' && r.outcome === 'ok')).toBe(true);
+    expect(rows.filter((r) => r.action === 'import.start').length).toBeGreaterThanOrEqual(3);
   });
 });

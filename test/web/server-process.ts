@@ -1,7 +1,8 @@
 /**
  * The browser tests' server, in a process of its own so the browser driver's traffic does not
  * share the server's event loop (as in a clinic, where the browser runs elsewhere). Opens the
- * database file named on the command line, creates the test account, listens on 127.0.0.1 and
+ * database file named on the command line, creates the test account (an admin, so it can also
+ * upload a food table), listens on 127.0.0.1 and
  * prints `READY <address>`. Ends when its standard input closes or on SIGTERM.
  */
 import { TEST_SCRYPT_PARAMS } from '../../src/auth/password.js';
@@ -19,7 +20,8 @@ const app = await buildApp({
   auth: { scryptParams: TEST_SCRYPT_PARAMS },
 });
 await app.ready();
-await app.auth.createUser(username, 'dietitian', password);
+// An admin: the screens a dietitian uses, plus the Food tables upload, which is admin-only.
+await app.auth.createUser(username, 'admin', password);
 const address = await app.listen({ host: '127.0.0.1', port: 0 });
 
 let closing = false;

@@ -1,5 +1,10 @@
 import cliProgress from 'cli-progress';
-import type { ImportIssue, ImportProgress } from '../../../data-import/importer.js';
+import {
+  unpackLimitsFromEnv,
+  type ImportIssue,
+  type ImportProgress,
+} from '../../../data-import/importer.js';
+import { ProgressThrottle, progressLine } from '../../../data-import/progress-line.js';
 import { findImporter, importers } from '../../../data-import/registry.js';
 import { auditImport, cliActor } from '../../audit/actors.js';
 import { UsageError, type Command } from '../command.js';
@@ -52,8 +57,15 @@ export const importCommand: Command = {
         )
       : null;
     let started = false;
+    // Without a terminal (a log, a service) or with --json: a line on stderr every few seconds.
+    const throttle = new ProgressThrottle();
+    const json = ctx.args.values.json === true;
     const onProgress = (p: ImportProgress) => {
-      if (!bar) return;
+      if (!bar) {
+        if (throttle.due(p, Date.now()))
+          ctx.stderr.write(`${progressLine(importer.format, p, json)}\n`);
+        return;
+      }
       const payload = { file: p.file, rows: n(p.rows) };
       if (!started) {
         bar.start(p.bytesTotal || 1, p.bytesDone, payload);
@@ -62,9 +74,16 @@ export const importCommand: Command = {
       bar.setTotal(p.bytesTotal || 1);
       bar.update(p.bytesDone, payload);
     };
+    let limits;
+    try {
+      limits = unpackLimitsFromEnv(process.env);
+    } catch (err) {
+      throw new UsageError((err as Error).message);
+    }
     const result = await importer.run(db, path, {
       ...(typeof release === 'string' ? { release: release.trim() } : {}),
       onProgress,
+      limits,
     });
     if (started) bar?.stop();
     await auditImport(db, result, cliActor());
