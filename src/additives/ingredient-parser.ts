@@ -221,11 +221,7 @@ const PHOS_COMPOUND_RE =
 const ACID_ADJ_RE = /^(ortho|orto)?(?:ph|f)os(?:ph|p|f)?or(ic|ique|ico|ous|us|ik)$/;
 /** German "Phosphorsäure", Dutch "fosforzuur". */
 const ACID_COMPOUND_RE = /^(ortho)?(?:ph|f)osp?h?ors(a|ae)ure$|^(ortho)?fosforzuur$/;
-/**
- * Last resort for languages without listed names (Polish "fosforany", Swedish "difosfater",
- * Finnish "fosfaatti", Hungarian "foszfatok"): a word with a phosphate stem that no rule above
- * read is reported as an unspecified phosphate, so it is never silently missed.
- */
+/** A phosphate stem in any language (the last-resort rule, `unlistedStemRule`). */
 const PHOS_ANY_STEM_RE = /phosph|fosf|foszf/;
 /** Words with the stem that name the element or its nutrient value, or non-additive phosphorus compounds. */
 const NOT_AN_ADDITIVE_STEM_RE =

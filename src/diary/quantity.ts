@@ -25,7 +25,7 @@ export type QuantityUnit =
   | 'serving'
   | 'handful';
 
-/** A parsed quantity: `amount` units (a range is taken at its midpoint, see DEVELOPERS.md). */
+/** A parsed quantity: `amount` units (a range is taken at its midpoint, see docs/diary-audits.md). */
 export interface Quantity {
   amount: number;
   /** The stated range when the text gave one ("2-3"), else null. */

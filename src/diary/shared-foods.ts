@@ -1,7 +1,7 @@
 /**
  * What diary audits keep between audits, per database connection and per state of the food
- * tables: search results, swaps, loaded foods and the name indexes. See DEVELOPERS.md, "Diary
- * audits", on why the name index gives exactly SQLite's candidates.
+ * tables: search results, swaps, loaded foods and the name indexes. See docs/diary-audits.md
+ * on why the name index gives exactly SQLite's candidates.
  */
 import { sql } from 'kysely';
 import type { Db } from '../db/database.js';

@@ -14,7 +14,7 @@ export interface PageDef {
   public?: boolean;
 }
 
-/** The screens. Names are the product's own: see DEVELOPERS.md "Web UI". */
+/** The screens. Names are the product's own: see docs/web-ui.md. */
 export const PAGES: readonly PageDef[] = [
   {
     url: '/signin',
