@@ -160,6 +160,26 @@ describe('lab results over HTTP', () => {
     ]);
   });
 
+  it('results added as rows reach the targets: the calcium check reads the albumin-corrected value', async () => {
+    const { id: p } = (
+      await ctx.inject({
+        method: 'POST',
+        url: '/api/patients',
+        payload: { ...PATIENT, label: 'DEMO-4472 (invented demo patient)', identifier: null },
+      })
+    ).json();
+    for (const payload of [
+      { analyte: 'calcium', value: 9.8, unit: 'mg/dL', date: '2026-11-30' },
+      { analyte: 'albumin', value: 28, unit: 'g/L', date: '2026-11-29' },
+    ]) {
+      const r = await ctx.inject({ method: 'POST', url: `/api/patients/${p}/labs`, payload });
+      expect(r.statusCode).toBe(201);
+    }
+    const patient = (await ctx.inject(`/api/patients/${p}`)).json();
+    // Payne 1973: 9.8 + 0.8 x (4.0 - 2.8 g/dL) = 10.76 mg/dL, above 10.2 (KDOQI 2003 Guideline 5)
+    expect(patient.targets.calciumMg.note).toMatch(/albumin-corrected calcium 10\.76 mg\/dL/);
+  });
+
   it('draws the band the clinic set (setting labBands) in the trend data', async () => {
     const before = (await ctx.inject(`/api/patients/${id}/trends`)).json();
     const phosphate = before.analytes.find((a: { analyte: string }) => a.analyte === 'phosphate');
