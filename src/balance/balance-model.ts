@@ -12,6 +12,8 @@ import { profileFood } from '../phosphorus/profile.js';
 import type { PlanContent } from '../plans/plan.js';
 import { MAX_ITEM_GRAMS } from '../plans/plan.js';
 import { binderCalciumMg } from '../plans/summary.js';
+import { applicability, prepareAmounts, type WeightBasis } from '../preparation/apply.js';
+import type { PreparationMethodId } from '../preparation/methods.js';
 import { comparisonPortion } from '../plans/swaps.js';
 import type { BalancingSettings, ItemChoice, LimitKey, PlacedCandidate } from './balance.js';
 import { LpModel, type RowId, type VarId } from './lp-model.js';
@@ -51,6 +53,8 @@ export interface Slot {
   stepVar: VarId | null;
   /** Binary: item kept (removable items) or candidate added. */
   onVar: VarId | null;
+  /** The item's preparation method and weight basis, when it is cooked by one (items only). */
+  preparation?: { method: PreparationMethodId; basis: WeightBasis } | null;
 }
 
 export interface LimitRow {
@@ -96,6 +100,42 @@ const MARGIN_ABS = 1e-4;
 export const SLACK_WEIGHT = 1e5;
 /** The protein minimum is relaxed last: its slack costs this many times more. */
 const PROTEIN_MIN_SLACK_FACTOR = 100;
+
+/**
+ * Per gram of an item cooked by a preparation method, as the summary counts it (typical
+ * retained fractions; absorbable at its high end with `robust`): the amounts are linear in the
+ * item's grams, so the values for 100 g divided by 100. Null when the method does not apply to
+ * the food (the summary then shows it as listed).
+ */
+export function preparedPerGram(
+  food: Food,
+  absorption: AbsorptionFractions,
+  robust: boolean,
+  prep: { method: PreparationMethodId; basis: WeightBasis },
+): PerGram | null {
+  const a = applicability(food, prep.method);
+  if (!a.ok) return null;
+  const x = prepareAmounts(
+    food,
+    profileFood(food, absorption),
+    absorption,
+    100,
+    prep.basis,
+    prep.method,
+    a,
+  );
+  const typ = (r: { typical: number } | null) => (r?.typical ?? 0) / 100;
+  return {
+    absorbable:
+      ((robust ? x.absorbablePhosphorusMg?.high : x.absorbablePhosphorusMg?.typical) ?? 0) / 100,
+    phosphorusMg: typ(x.phosphorusMg),
+    proteinG: typ(x.proteinG),
+    energyKcal: (x.energyKcal ?? 0) / 100,
+    sodiumMg: typ(x.sodiumMg),
+    potassiumMg: typ(x.potassiumMg),
+    calciumMg: typ(x.calciumMg),
+  };
+}
 
 export function perGram(food: Food, absorption: AbsorptionFractions, robust: boolean): PerGram {
   const abs = profileFood(food, absorption).absorbableMg;
@@ -144,6 +184,10 @@ function itemSlot(
     grams: { constant: it.grams, terms: [] },
     stepVar: null,
     onVar: null,
+    preparation:
+      it.preparation && it.preparation !== 'as-listed'
+        ? { method: it.preparation, basis: it.weightBasis ?? 'table' }
+        : null,
   };
   const unknown = food.per100g.phosphorusMg === null || food.per100g.proteinG === null;
   if (unknown)
@@ -327,14 +371,19 @@ function addDeviation(lp: LpModel, slot: Slot, mgPerG: number): void {
 export function buildBalanceModel(input: ModelInput): BalanceModel {
   const lp = new LpModel();
   const m: BalanceModel = { lp, slots: [], limits: [], notes: [] };
-  const coef = new Map<number, PerGram>();
-  const per = (foodId: number) => {
-    let c = coef.get(foodId);
-    if (!c)
-      coef.set(
-        foodId,
-        (c = perGram(input.foods.get(foodId) as Food, input.absorption, input.robust)),
-      );
+  const coef = new Map<string, PerGram>();
+  // Per gram of a slot's food as the summary counts it: as listed, or after its preparation.
+  const per = (slot: Pick<Slot, 'foodId' | 'preparation'>) => {
+    const prep = slot.preparation ?? null;
+    const key = prep ? `${slot.foodId}|${prep.method}|${prep.basis}` : String(slot.foodId);
+    let c = coef.get(key);
+    if (!c) {
+      const food = input.foods.get(slot.foodId) as Food;
+      c =
+        (prep && preparedPerGram(food, input.absorption, input.robust, prep)) ??
+        perGram(food, input.absorption, input.robust);
+      coef.set(key, c);
+    }
     return c;
   };
   const mgPerG = input.settings.deviationPenaltyMgPer100g / 100;
@@ -361,7 +410,7 @@ export function buildBalanceModel(input: ModelInput): BalanceModel {
         -Infinity,
         input.settings.maxNewFoodsPerDay,
       );
-    const obj = sumOver(daySlots, (s) => per(s.foodId).absorbable);
+    const obj = sumOver(daySlots, (s) => per(s).absorbable);
     lp.objectiveOffset += obj.constant;
     for (const [v, k] of obj.terms) lp.addCost(v, k);
     for (const s of daySlots) addDeviation(lp, s, mgPerG);
@@ -372,7 +421,7 @@ export function buildBalanceModel(input: ModelInput): BalanceModel {
         m,
         elastic,
         { key, day: d, occasion: null, bound, unit },
-        sumOver(daySlots, (s) => per(s.foodId)[nut]),
+        sumOver(daySlots, (s) => per(s)[nut]),
       );
     addMealRules(m, { ...input, elastic }, d, daySlots, per);
     m.slots.push(...daySlots);
@@ -386,17 +435,14 @@ function addMealRules(
   input: ModelInput,
   d: number,
   daySlots: readonly Slot[],
-  per: (foodId: number) => PerGram,
+  per: (slot: Slot) => PerGram,
 ): void {
   const share = input.settings.mealProteinMinShare;
   if (share === null || share <= 0) return;
   input.plan.days[d]!.occasions.forEach((o, oi) => {
     if (o.kind !== 'meal') return;
     // protein(meal) - share x protein(day) >= 0
-    const e = sumOver(
-      daySlots,
-      (s) => per(s.foodId).proteinG * ((s.occasion === oi ? 1 : 0) - share),
-    );
+    const e = sumOver(daySlots, (s) => per(s).proteinG * ((s.occasion === oi ? 1 : 0) - share));
     addLimit(
       m,
       input.elastic,

@@ -89,14 +89,22 @@ function proposalOf(problem: BalanceProblem, solved: Solved): PlanInput {
           count: it.measure?.count ?? null,
         };
         if (a.grams <= 0) return;
+        // The item keeps how it is cooked, and which weight its grams are.
+        const prep = it.preparation
+          ? {
+              preparation: it.preparation,
+              ...(it.weightBasis ? { weightBasis: it.weightBasis } : {}),
+            }
+          : {};
         items.push(
           it.measure
             ? {
                 foodId: it.foodId,
                 measure: { portionId: it.measure.portionId, count: a.count ?? it.measure.count },
                 label: it.label,
+                ...prep,
               }
-            : { foodId: it.foodId, grams: a.grams, label: it.label },
+            : { foodId: it.foodId, grams: a.grams, label: it.label, ...prep },
         );
       });
       for (const { slot, amount } of added.get(`${di}/${oi}`) ?? []) {
