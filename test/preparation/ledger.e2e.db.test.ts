@@ -67,8 +67,13 @@ describe.skipIf(!canRun)('plate ledger preparation picker (USDA SR28)', () => {
     await page.keyboard.press('ArrowDown'); // "as listed" -> the first method, boiled and drained
     await page.waitForFunction((b) => {
       const t = document.getElementById('save-state')?.textContent ?? '';
-      return t !== b && t.startsWith('Saved');
+      return t !== b && t.startsWith('Saved as a draft');
     }, before);
+    // The edit is a draft until a version is kept: keep one, then read its summary.
+    await page.locator('#save-version-btn').click();
+    await page.waitForFunction(() =>
+      /^Saved as version \d+/.test(document.getElementById('save-state')?.textContent ?? ''),
+    );
     const s = await apiAs<PlanSummary>(hs, 'GET', `/api/plans/${plan.id}/summary`);
     const item = s.days[0]?.occasions[0]?.items[0];
     expect(item?.preparation?.method).toBe('boil-drain');
@@ -78,7 +83,9 @@ describe.skipIf(!canRun)('plate ledger preparation picker (USDA SR28)', () => {
     await expect
       .poll(() => page.locator('.prep-note').first().textContent(), { timeout: 10_000 })
       .toContain('129.9 g raw = 100 g cooked');
-    // the weight select follows the method select in the tab order
+    // the weight select follows the method select in the tab order (focus left it for the
+    // "Save version" button)
+    await page.focus('select[aria-label^="Preparation of"]');
     await page.keyboard.press('Tab');
     expect(await page.evaluate(() => document.activeElement?.getAttribute('aria-label'))).toMatch(
       /^Weight of Chicken/,
