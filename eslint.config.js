@@ -123,6 +123,23 @@ export default tseslint.config(
   },
   ...layerRules,
   {
+    // Files the program reads are found through src/paths.ts: a path relative to the module
+    // breaks in the compiled copy under dist/.
+    files: ['src/**/*.ts', 'data-import/**/*.ts'],
+    ignores: ['src/paths.ts', 'src/web/client/**'],
+    rules: {
+      'no-restricted-syntax': [
+        'error',
+        {
+          selector:
+            "NewExpression[callee.name='URL'] > MemberExpression.arguments[object.type='MetaProperty']",
+          message:
+            'Find product files with projectPath() from src/paths.ts (works from dist/ too).',
+        },
+      ],
+    },
+  },
+  {
     files: ['test/**', 'src/cli/**', 'data-import/**', 'src/web/**', 'src/server/serve.ts'],
     rules: { 'no-console': 'off' },
   },

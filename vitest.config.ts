@@ -3,7 +3,8 @@ import { defineConfig } from 'vitest/config';
 /**
  * Two projects: `fast` is what `npm test` runs; `slow` (`npm run test:slow`, CI runs both) holds
  * the tests that start real processes, browsers or walk the whole SR28 release: the kill and
- * restart test, socket and fuzz tests, the browser tests and the name-index equivalence checks.
+ * restart test, socket and fuzz tests, the browser tests, the name-index equivalence checks and
+ * the compiled program's start.
  */
 const SLOW = [
   'test/security/kill.db.test.ts',
@@ -12,6 +13,7 @@ const SLOW = [
   'test/foods/name-index.db.test.ts',
   'test/diary/prepare.db.test.ts',
   'test/**/*.e2e.db.test.ts',
+  'test/cli/compiled.db.test.ts',
 ];
 
 export default defineConfig({

@@ -1,11 +1,9 @@
 import { readFileSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
 import { parse } from 'csv-parse/sync';
+import { projectPath } from '../paths.js';
 
 /** The shipped starter glossary (drafted names, never reviewed): templates/glossary/starter.csv. */
-export const STARTER_GLOSSARY_FILE = fileURLToPath(
-  new URL('../../templates/glossary/starter.csv', import.meta.url),
-);
+export const STARTER_GLOSSARY_FILE = projectPath('templates', 'glossary', 'starter.csv');
 
 export interface StarterRow {
   foodSource: string;

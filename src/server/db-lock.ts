@@ -1,6 +1,7 @@
 import { readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { dirname } from 'node:path';
 import { AppError } from '../errors.js';
-import { PRIVATE_FILE_MODE } from './private-files.js';
+import { ensurePrivateDir, PRIVATE_FILE_MODE } from './private-files.js';
 
 /** What the lock file beside the database holds. */
 interface LockInfo {
@@ -40,6 +41,9 @@ function readLock(file: string): LockInfo | null {
 export function acquireDbLock(dbFile: string, purpose: string, now: Date): () => void {
   if (dbFile === ':memory:') return () => undefined;
   const file = lockFileOf(dbFile);
+  // A database in a folder that does not exist yet (a first start with PHOSLEDGER_DB or --db
+  // pointing at a new folder): the folder is made private, as openDb would make it.
+  ensurePrivateDir(dirname(file));
   const info: LockInfo = { pid: process.pid, purpose, since: now.toISOString() };
   for (let attempt = 0; attempt < 2; attempt++) {
     try {
