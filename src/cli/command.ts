@@ -1,6 +1,7 @@
 import type { ParseArgsConfig } from 'node:util';
 import type { Config } from '../config.js';
 import type { Db } from '../db/database.js';
+import { AppError } from '../errors.js';
 
 /** Output streams and the opened database, handed to every command (tests pass fakes). */
 export interface CommandContext {
@@ -33,5 +34,21 @@ export class UsageError extends Error {
   constructor(message: string) {
     super(message);
     this.name = 'UsageError';
+  }
+}
+
+/** Runs a command's body; a known error (AppError) prints its message and code and exits 1. */
+export async function guarded(
+  ctx: CommandContext,
+  body: () => Promise<number | void>,
+): Promise<number | void> {
+  try {
+    return await body();
+  } catch (err) {
+    if (err instanceof AppError) {
+      ctx.stderr.write(`phosledger: ${err.message} (${err.code})\n`);
+      return 1;
+    }
+    throw err;
   }
 }

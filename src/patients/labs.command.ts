@@ -4,8 +4,7 @@ import { cliActor } from '../audit/actors.js';
 import { recordAudit } from '../audit/audit.service.js';
 import { systemClock } from '../clock.js';
 import type { Db } from '../db/database.js';
-import { AppError } from '../errors.js';
-import { UsageError, type Command, type CommandContext } from '../cli/command.js';
+import { guarded, UsageError, type Command } from '../cli/command.js';
 import { analyteLabel, toLabListItem } from './lab-results.js';
 import { LabService } from './labs.service.js';
 
@@ -18,22 +17,6 @@ function patientId(text: string | undefined): number {
   if (!Number.isInteger(n) || n <= 0)
     throw new UsageError('PATIENT must be a patient id (a positive whole number)');
   return n;
-}
-
-/** Runs a body, printing known errors (not found, invalid) plainly with exit code 1. */
-async function guarded(
-  ctx: CommandContext,
-  body: () => Promise<number | void>,
-): Promise<number | void> {
-  try {
-    return await body();
-  } catch (err) {
-    if (err instanceof AppError) {
-      ctx.stderr.write(`phosledger: ${err.message} (${err.code})\n`);
-      return 1;
-    }
-    throw err;
-  }
 }
 
 export const labsAdd: Command = {

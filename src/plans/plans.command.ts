@@ -1,9 +1,8 @@
 import { readFileSync } from 'node:fs';
 import { systemClock } from '../clock.js';
 import type { Db } from '../db/database.js';
-import { AppError } from '../errors.js';
 import { FoodRepository } from '../foods/foods.repository.js';
-import { UsageError, type Command, type CommandContext } from '../cli/command.js';
+import { guarded, UsageError, type Command, type CommandContext } from '../cli/command.js';
 import { settingsSource } from './plan-settings-source.js';
 import { PlanService, toPlanVersionJson } from './plans.service.js';
 import type { Nutrients, PlanSummary } from './summary-types.js';
@@ -22,22 +21,6 @@ function positiveInt(text: string | undefined, what: string): number {
 function versionOpt(ctx: CommandContext): number | undefined {
   const v = ctx.args.values.version;
   return typeof v === 'string' ? positiveInt(v, '--version') : undefined;
-}
-
-/** Runs a body, printing known errors (not found, invalid) plainly with exit code 1. */
-async function guarded(
-  ctx: CommandContext,
-  body: () => Promise<number | void>,
-): Promise<number | void> {
-  try {
-    return await body();
-  } catch (err) {
-    if (err instanceof AppError) {
-      ctx.stderr.write(`phosledger: ${err.message} (${err.code})\n`);
-      return 1;
-    }
-    throw err;
-  }
 }
 
 export const planList: Command = {

@@ -1,3 +1,4 @@
+// Test helper with no expected values of its own (no source needed): where the shared reference data is.
 import { existsSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { requirePresent } from './requirements.js';
