@@ -96,6 +96,7 @@ export function randomProblem(
   let energy = 0;
   let sodium = 0;
   let potassium = 0;
+  let calcium = 0;
   let phosphorus = 0;
   for (let d = 0; d < shape.days; d++) {
     const occ = occasions.map((name) => ({
@@ -126,6 +127,7 @@ export function randomProblem(
       energy += ((f.per100g.energyKcal ?? 0) * grams) / 100;
       sodium += ((f.per100g.sodiumMg ?? 0) * grams) / 100;
       potassium += ((f.per100g.potassiumMg ?? 0) * grams) / 100;
+      calcium += ((f.per100g.calciumMg ?? 0) * grams) / 100;
       phosphorus += ((f.per100g.phosphorusMg ?? 0) * grams) / 100;
     }
     for (let c = 0; c < shape.candidates; c++) {
@@ -154,6 +156,9 @@ export function randomProblem(
           ? { min: null, max: Math.max(1, around(potassium, 0.8, 0.8)) }
           : { min: null, max: null },
       phosphorusMg: { min: null, max: Math.max(1, around(phosphorus, 0.7, 0.6)) },
+      // the stage's calcium target (800-1,000 mg, KDOQI 2020) would make almost every invented
+      // day infeasible: drawn around the plan's own calcium like the other limits
+      calciumMg: { min: null, max: Math.max(1, around(calcium, 0.8, 0.8)) },
     },
   });
   return {
