@@ -75,6 +75,10 @@ export async function renderDiaryReportPdf(
     view.entries.map((e) => e.cells),
     { zebra: true, padPt: 3 },
   );
+  if (view.review.length > 0) {
+    h('Waiting for review (not in the totals)');
+    for (const t of view.review) p(t, 9);
+  }
   if (view.unmatched.length > 0) {
     h('Not matched (not in the totals)');
     for (const t of view.unmatched) p(t, 9);

@@ -3,6 +3,8 @@ import { fixedClock } from '../../src/clock.js';
 import { openMemoryDb, type Db } from '../../src/db/database.js';
 import { DiaryAuditService } from '../../src/diary/diary.service.js';
 import type { DiaryEntryReport, DiaryReport } from '../../src/diary/findings.js';
+import { renderDiaryReportHtml } from '../../src/diary/report-html.js';
+import { diaryReportView } from '../../src/diary/report-view.js';
 import { hasSr28, SR28_MISSING } from '../helpers/shared.js';
 import { insertFoods, loadAllSr28Foods } from '../helpers/sr28.js';
 
@@ -94,6 +96,31 @@ describe(`diary review: several foods a line, weak matches and odd amounts (${no
       expect(r.days[0]?.nutrients.phosphorusMg).toBeCloseTo(counted, 0);
       expect(r.days[0]?.reviewCount).toBe(r.review.length);
       expect(r.days[0]?.status.messages.join(' ')).toContain('wait for review');
+    },
+  );
+
+  it.skipIf(skip)(
+    'the clinician report (HTML and PDF view) lists what waits for review and says it is not counted',
+    async () => {
+      const saved = await service.create({ text: DIARY });
+      const view = diaryReportView(saved.report, {
+        id: saved.id,
+        patientLabel: null,
+        generatedAt: '2026-03-05T09:30:00Z', // invented fixed test time
+      });
+      const waiting = saved.report.review.length;
+      expect(waiting).toBeGreaterThan(0);
+      expect(view.review).toHaveLength(waiting);
+      expect(view.status).toMatch(new RegExp(`${waiting} entr(y waits|ies wait) for review`));
+      // line 7 "-100 g rice": a negative amount, left out until the reviewer enters the amount
+      expect(view.review.find((r) => r.startsWith('Line 7'))).toMatch(/negative/);
+      // users read "assumed (no published figure)" where a reference table says "from memory"
+      expect(JSON.stringify(saved.report)).toMatch(/from memory/i);
+      expect(JSON.stringify(view)).not.toMatch(/from memory/i);
+      expect(JSON.stringify(view)).toContain('assumed (no published figure)');
+      const html = renderDiaryReportHtml(view);
+      expect(html).toContain('Waiting for review (not in the totals)');
+      expect(html).toContain('Line 7');
     },
   );
 
