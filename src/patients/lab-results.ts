@@ -54,21 +54,8 @@ export interface LabRecord {
   createdAt: string;
 }
 
-/** The row shape the repository writes. */
-export interface NewLabRecord {
-  patientId: number;
-  analyte: Analyte;
-  value: number;
-  unit: string;
-  canonicalValue: number;
-  canonicalUnit: string;
-  date: string;
-  takenAt: string | null;
-  source: LabSource;
-  sourceRef: string | null;
-  loincCode: string | null;
-  enteredBy: string | null;
-}
+/** The row shape the repository writes (the database gives the id and creation time). */
+export type NewLabRecord = Omit<LabRecord, 'id' | 'createdAt'>;
 
 /** The `labs list --json` and API shape (a fixed contract). */
 export interface LabListItem {

@@ -3,24 +3,10 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { fdcCsv } from '../../data-import/fdc-csv.js';
 import { fixedClock } from '../../src/clock.js';
-import { openMemoryDb } from '../../src/db/database.js';
 import { FoodRepository } from '../../src/foods/foods.repository.js';
-import { copyFixture, FIXTURES, fixtureFiles, makeZip, snapshot, tempDir } from './helpers.js';
+import { copyFixture, FIXTURES, fixtureFiles, makeZip, snapshot, withDb } from './helpers.js';
 
 const clock = fixedClock('2026-03-05T09:30:00Z'); // invented fixed test time
-
-async function withDb<T>(
-  fn: (db: Awaited<ReturnType<typeof openMemoryDb>>, dir: string) => Promise<T>,
-) {
-  const db = await openMemoryDb();
-  const t = tempDir();
-  try {
-    return await fn(db, t.dir);
-  } finally {
-    t.cleanup();
-    await db.close();
-  }
-}
 
 describe('fdc-csv: FoodData Central CSV layout (invented demo rows, test/fixtures/import/fdc-mini)', () => {
   it('imports generic and branded foods, values by nutrient number, portions and label data', () =>

@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { crc32 } from 'node:zlib';
-import type { Db } from '../../src/db/database.js';
+import { openMemoryDb, type Db } from '../../src/db/database.js';
 
 export const FIXTURES = fileURLToPath(new URL('../fixtures/import/', import.meta.url));
 
@@ -88,4 +88,18 @@ export function snapshot(db: Db): string {
     JSON.stringify(db.sqlite.prepare('select rowid, * from food_fts order by rowid').all()),
   );
   return parts.join('\n');
+}
+
+/** Runs `fn` over a fresh migrated in-memory database and a temporary folder, both removed after. */
+export async function withDb<T>(
+  fn: (db: Awaited<ReturnType<typeof openMemoryDb>>, dir: string) => Promise<T>,
+): Promise<T> {
+  const db = await openMemoryDb();
+  const t = tempDir();
+  try {
+    return await fn(db, t.dir);
+  } finally {
+    t.cleanup();
+    await db.close();
+  }
 }

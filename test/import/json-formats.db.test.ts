@@ -6,22 +6,10 @@ import { fdcJson } from '../../data-import/fdc-json.js';
 import { offJsonl } from '../../data-import/off-jsonl.js';
 import { fixedClock } from '../../src/clock.js';
 import { openMemoryDb } from '../../src/db/database.js';
-import { FIXTURES, makeZip, snapshot, tempDir } from './helpers.js';
+import { FIXTURES, makeZip, snapshot, withDb } from './helpers.js';
 
 const clock = fixedClock('2026-03-05T09:30:00Z'); // invented fixed test time
 
-async function withDb<T>(
-  fn: (db: Awaited<ReturnType<typeof openMemoryDb>>, dir: string) => Promise<T>,
-) {
-  const db = await openMemoryDb();
-  const t = tempDir();
-  try {
-    return await fn(db, t.dir);
-  } finally {
-    t.cleanup();
-    await db.close();
-  }
-}
 const col = (db: Awaited<ReturnType<typeof openMemoryDb>>, code: string, c: string) =>
   (db.sqlite.prepare(`select ${c} as v from food where code = ?`).get(code) as { v: unknown }).v;
 

@@ -10,24 +10,10 @@ import {
 import { offCsv } from '../../data-import/off-csv.js';
 import { usdaSr28 } from '../../data-import/usda-sr28.js';
 import { fixedClock } from '../../src/clock.js';
-import { openMemoryDb } from '../../src/db/database.js';
 import { writeOffExport } from '../fixtures/import/generate.js';
-import { FIXTURES, fixtureFiles, makeZip, snapshot, tempDir } from './helpers.js';
+import { FIXTURES, fixtureFiles, makeZip, snapshot, withDb } from './helpers.js';
 
 const clock = fixedClock('2026-03-05T09:30:00Z'); // invented fixed test time
-
-async function withDb<T>(
-  fn: (db: Awaited<ReturnType<typeof openMemoryDb>>, dir: string) => Promise<T>,
-) {
-  const db = await openMemoryDb();
-  const t = tempDir();
-  try {
-    return await fn(db, t.dir);
-  } finally {
-    t.cleanup();
-    await db.close();
-  }
-}
 
 describe('compressed input: progress, damage and limits (invented demo products)', () => {
   it('reports progress on the compressed bytes read, from 0 to the file size', () =>

@@ -7,23 +7,11 @@ import { PRODUCT_COLUMNS, productsCsv } from '../../data-import/products-csv.js'
 import { fixedClock } from '../../src/clock.js';
 import { openMemoryDb } from '../../src/db/database.js';
 import { FoodRepository } from '../../src/foods/foods.repository.js';
-import { FIXTURES, snapshot, tempDir } from './helpers.js';
+import { FIXTURES, snapshot, withDb } from './helpers.js';
 
 const clock = fixedClock('2026-03-05T09:30:00Z'); // invented fixed test time
 const TEMPLATE = new URL('../../data-import/templates/products-template.csv', import.meta.url);
 
-async function withDb<T>(
-  fn: (db: Awaited<ReturnType<typeof openMemoryDb>>, dir: string) => Promise<T>,
-) {
-  const db = await openMemoryDb();
-  const t = tempDir();
-  try {
-    return await fn(db, t.dir);
-  } finally {
-    t.cleanup();
-    await db.close();
-  }
-}
 const scanOf = (db: Awaited<ReturnType<typeof openMemoryDb>>, code: string) => {
   const r = db.sqlite.prepare('select additive_scan from food where code = ?').get(code) as {
     additive_scan: string | null;

@@ -4,6 +4,7 @@ import { computeTargets, type TargetInputs } from '../../src/patients/targets.js
 import { DEFAULT_ABSORPTION_FRACTIONS } from '../../src/phosphorus/absorption.js';
 import { DEFAULT_THRESHOLDS } from '../../src/plans/plan-settings.js';
 import { summarizePlan } from '../../src/plans/summary.js';
+import { occasion, oneDayPlan } from '../helpers/plan.js';
 import { testFood } from '../helpers/food.js';
 
 // All lab values below are invented demo data; thresholds name their guideline.
@@ -37,25 +38,7 @@ describe('phosphorus default follows the latest phosphate and the stage (KDOQI 2
       per100g: { phosphorusMg: 500, proteinG: 25 },
     });
     const s = summarizePlan(
-      {
-        planId: 1,
-        patientId: 1,
-        version: 1,
-        name: 'Invented',
-        days: [
-          {
-            label: 'Day 1',
-            occasions: [
-              {
-                name: 'Lunch',
-                kind: 'meal',
-                time: null,
-                items: [{ foodId: 1, grams: 300, measure: null, label: null }],
-              },
-            ],
-          },
-        ],
-      },
+      oneDayPlan([occasion('Lunch', 'meal', [[1, 300]])]),
       new Map([[1, food]]),
       t,
       { absorption: DEFAULT_ABSORPTION_FRACTIONS, thresholds: DEFAULT_THRESHOLDS },
@@ -129,23 +112,9 @@ describe('calcium targets per stage, binder calcium counted', () => {
       per100g: { phosphorusMg: 50, proteinG: 2, calciumMg: 100 },
     });
     const s = summarizePlan(
-      {
-        planId: 1,
-        patientId: 1,
-        version: 1,
-        name: 'Invented',
-        days: [
-          {
-            label: 'Day 1',
-            occasions: ['Breakfast', 'Lunch', 'Dinner'].map((name) => ({
-              name,
-              kind: 'meal' as const,
-              time: null,
-              items: [{ foodId: 1, grams: 100, measure: null, label: null }],
-            })),
-          },
-        ],
-      },
+      oneDayPlan(
+        ['Breakfast', 'Lunch', 'Dinner'].map((name) => occasion(name, 'meal', [[1, 100]])),
+      ),
       new Map([[1, food]]),
       t,
       { absorption: DEFAULT_ABSORPTION_FRACTIONS, thresholds: DEFAULT_THRESHOLDS },
@@ -192,25 +161,7 @@ describe('calcium targets per stage, binder calcium counted', () => {
     });
     const run = (l: typeof labs | null) =>
       summarizePlan(
-        {
-          planId: 1,
-          patientId: 1,
-          version: 1,
-          name: 'Invented',
-          days: [
-            {
-              label: 'Day 1',
-              occasions: [
-                {
-                  name: 'Lunch',
-                  kind: 'meal',
-                  time: null,
-                  items: [{ foodId: 1, grams: 150, measure: null, label: null }],
-                },
-              ],
-            },
-          ],
-        },
+        oneDayPlan([occasion('Lunch', 'meal', [[1, 150]])]),
         new Map([[1, food]]),
         computeTargets(inputs),
         { absorption: DEFAULT_ABSORPTION_FRACTIONS, thresholds: DEFAULT_THRESHOLDS },
@@ -249,25 +200,7 @@ describe('dialysis: potassium, fluid, dialysate glucose; protein beside KDIGO 20
       per100g: { phosphorusMg: 20, proteinG: 1, potassiumMg: 300 },
     });
     const s = summarizePlan(
-      {
-        planId: 1,
-        patientId: 1,
-        version: 1,
-        name: 'Invented',
-        days: [
-          {
-            label: 'Day 1',
-            occasions: [
-              {
-                name: 'Snack',
-                kind: 'snack',
-                time: null,
-                items: [{ foodId: 1, grams: 100, measure: null, label: null }],
-              },
-            ],
-          },
-        ],
-      },
+      oneDayPlan([occasion('Snack', 'snack', [[1, 100]])]),
       new Map([[1, food]]),
       pd,
       { absorption: DEFAULT_ABSORPTION_FRACTIONS, thresholds: DEFAULT_THRESHOLDS },

@@ -7,6 +7,7 @@ import { computeTargets, type TargetInputs } from '../../src/patients/targets.js
 import { DEFAULT_ABSORPTION_FRACTIONS } from '../../src/phosphorus/absorption.js';
 import { DEFAULT_THRESHOLDS } from '../../src/plans/plan-settings.js';
 import { summarizePlan } from '../../src/plans/summary.js';
+import { occasion, oneDayPlan } from '../helpers/plan.js';
 import { testFood } from '../helpers/food.js';
 
 const langs = loadCataloguesOrThrow();
@@ -27,25 +28,7 @@ const patient = (p: Partial<TargetInputs>): TargetInputs => ({
 });
 function summary(inputs: TargetInputs, grams: number) {
   return summarizePlan(
-    {
-      planId: 1,
-      patientId: 1,
-      version: 1,
-      name: 'Invented',
-      days: [
-        {
-          label: 'Day 1',
-          occasions: [
-            {
-              name: 'Lunch',
-              kind: 'meal',
-              time: null,
-              items: [{ foodId: 1, grams, measure: null, label: null }],
-            },
-          ],
-        },
-      ],
-    },
+    oneDayPlan([occasion('Lunch', 'meal', [[1, grams]])]),
     new Map([[1, food]]),
     computeTargets(inputs),
     settings,

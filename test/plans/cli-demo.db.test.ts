@@ -6,36 +6,11 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { runCli } from '../../src/cli/main.js';
 import { fixedClock } from '../../src/clock.js';
 import { migrateToLatest, openDb, openMemoryDb, type Db } from '../../src/db/database.js';
-import type { Food } from '../../src/foods/food.js';
 import { DEMO_FOOD_CODES, seedDemoData } from '../../src/plans/demo-seed.js';
-import { testFood } from '../helpers/food.js';
+import { fakeIfctFoods } from '../helpers/demo-plan.js';
 import { insertFoods } from '../helpers/sr28.js';
 
 const clock = fixedClock('2026-03-05T09:30:00Z'); // invented fixed test time
-
-/** Invented test foods carrying the demo's IFCT 2017 codes (values invented, not IFCT's). */
-function fakeIfctFoods(codes: readonly string[]): Food[] {
-  return codes.map((code, i) =>
-    testFood({
-      id: 0,
-      sourceId: 0,
-      source: 'ifct2017',
-      sourceRelease: 'test',
-      code,
-      name: `Invented test food ${code}`,
-      group: 'Invented',
-      per100g: {
-        phosphorusMg: 100 + i * 10,
-        proteinG: 5 + i,
-        energyKcal: 150,
-        potassiumMg: 200,
-        sodiumMg: 20,
-        calciumMg: 30,
-        waterG: 60,
-      },
-    }),
-  );
-}
 
 function sink() {
   const s = new PassThrough();

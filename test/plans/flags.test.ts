@@ -6,6 +6,7 @@ import { profileFood } from '../../src/phosphorus/profile.js';
 import { plantAbsorbableRatioThresholdMgPerG } from '../../src/phosphorus/ratio.js';
 import { DEFAULT_THRESHOLDS } from '../../src/plans/plan-settings.js';
 import { summarizePlan } from '../../src/plans/summary.js';
+import { occasion, oneDayPlan } from '../helpers/plan.js';
 import { testFood } from '../helpers/food.js';
 import { hasSr28, SR28_MISSING } from '../helpers/shared.js';
 import { sr28Foods } from '../helpers/sr28.js';
@@ -25,25 +26,13 @@ const settings = { absorption: DEFAULT_ABSORPTION_FRACTIONS, thresholds: DEFAULT
 
 function summarize(foods: Food[], grams = 100) {
   return summarizePlan(
-    {
-      planId: 1,
-      patientId: 1,
-      version: 1,
-      name: 'Invented',
-      days: [
-        {
-          label: 'Day 1',
-          occasions: [
-            {
-              name: 'Lunch',
-              kind: 'meal',
-              time: null,
-              items: foods.map((f) => ({ foodId: f.id, grams, measure: null, label: null })),
-            },
-          ],
-        },
-      ],
-    },
+    oneDayPlan([
+      occasion(
+        'Lunch',
+        'meal',
+        foods.map((f) => [f.id, grams] as const),
+      ),
+    ]),
     new Map(foods.map((f) => [f.id, f])),
     targets,
     settings,
